@@ -1,0 +1,26 @@
+import { Router } from 'express';
+import type { AppDeps } from '../app.ts';
+import { AppError } from '../errors.ts';
+import { authenticate } from '../middleware/authenticate.ts';
+import { authRouter } from './auth.routes.ts';
+import { mailRouter } from './mail.routes.ts';
+import { usersRouter } from './users.routes.ts';
+
+/** Every API router, mounted under /api. */
+export function apiRouter(deps: AppDeps): Router {
+  const router = Router();
+  router.get('/health', (_req, res) => {
+    res.json({ data: { status: 'ok' } });
+  });
+  router.use('/auth', authRouter(deps.config, deps.mailer));
+  router.use('/users', authenticate, usersRouter(deps.config, deps.mailer));
+  router.use('/mail', authenticate, mailRouter());
+  router.use((req) => {
+    throw new AppError(
+      404,
+      'not_found',
+      `No API route ${req.method} ${req.path}.`,
+    );
+  });
+  return router;
+}

@@ -1,0 +1,18 @@
+import type { SessionDto } from '../../shared/schemas/auth.schema.ts';
+
+export interface NavItem {
+  to: string;
+  label: string;
+  /** Shown only when this returns true for the session. */
+  isShown: (session: SessionDto) => boolean;
+}
+
+const always = () => true;
+
+/** The main navigation, in order. */
+export const NAV_ITEMS: NavItem[] = [
+  { to: '/', label: 'Home', isShown: always },
+  { to: '/admin/users', label: 'Users', isShown: (s) => s.can.manageUsers },
+  { to: '/admin/mail', label: 'Sent mail', isShown: (s) => s.can.readSentMail },
+  { to: '/account', label: 'Account', isShown: always },
+];
