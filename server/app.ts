@@ -95,7 +95,7 @@ export function createApp(deps: AppDeps): LamellaApp {
       }),
     );
     app.use(express.static(clientDir, { index: false }));
-    app.get('/*splat', (_req, res) => {
+    app.get('/{*splat}', (_req, res) => {
       res.sendFile(path.join(clientDir, 'index.html'));
     });
   }

@@ -16,7 +16,10 @@ function findProjectRoot(start: string): string {
  * The checkout's root, found the same way whether this runs from `server/`
  * under tsx or from `dist/server/` after compilation.
  */
-export const PROJECT_ROOT = findProjectRoot(path.dirname(fileURLToPath(import.meta.url)));
+export const PROJECT_ROOT = findProjectRoot(
+  path.dirname(fileURLToPath(import.meta.url)),
+);
 
 /** Resolves a configured folder (e.g. UPLOADS_DIR) against the root. */
-export const fromRoot = (folder: string): string => path.resolve(PROJECT_ROOT, folder);
+export const fromRoot = (folder: string): string =>
+  path.resolve(PROJECT_ROOT, folder);

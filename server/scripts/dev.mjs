@@ -17,12 +17,23 @@ if (!databaseUrl) {
   stopCluster = startCluster();
   databaseUrl = ensureDatabase('lamella');
 }
-const env = { ...process.env, DATABASE_URL: databaseUrl, PUBLIC_URL: 'http://localhost:5173' };
-run('npx', ['--no-install', 'tsx', 'server/db/migrate.ts', 'up'], { cwd: ROOT, env });
+const env = {
+  ...process.env,
+  DATABASE_URL: databaseUrl,
+  PUBLIC_URL: 'http://localhost:5173',
+};
+run('npx', ['--no-install', 'tsx', 'server/db/migrate.ts', 'up'], {
+  cwd: ROOT,
+  env,
+});
 run('npx', ['--no-install', 'tsx', 'server/db/seed.ts'], { cwd: ROOT, env });
 
 const children = [
-  spawn('npx', ['--no-install', 'tsx', 'watch', 'server/index.ts'], { cwd: ROOT, env, stdio: 'inherit' }),
+  spawn('npx', ['--no-install', 'tsx', 'watch', 'server/index.ts'], {
+    cwd: ROOT,
+    env,
+    stdio: 'inherit',
+  }),
   spawn('npx', ['--no-install', 'vite'], { cwd: ROOT, env, stdio: 'inherit' }),
 ];
 const stop = () => {

@@ -37,12 +37,19 @@ let stopCluster = null;
 let exitCode = 0;
 try {
   timed('npm packages', ensureNodeModules);
-  timed('Debian packages for tests', () => ensureDebianPackages(TEST_PACKAGES, 'the test suite'));
+  timed('Debian packages for tests', () =>
+    ensureDebianPackages(TEST_PACKAGES, 'the test suite'),
+  );
   let databaseUrl = process.env.TEST_DATABASE_URL;
   timed('test database', () => {
     if (!databaseUrl) {
       stopCluster = startCluster();
-      databaseUrl = ensureDatabase('lamella_test', { fresh: true });
+      databaseUrl = ensureDatabase(
+        process.env.LAMELLA_TEST_DB ?? 'lamella_test',
+        {
+          fresh: true,
+        },
+      );
     }
   });
   const env = {
@@ -52,7 +59,8 @@ try {
     TZ: 'UTC',
     UPLOADS_DIR: join('test-output', 'uploads'),
   };
-  const npx = (args) => run('npx', ['--no-install', ...args], { cwd: ROOT, env });
+  const npx = (args) =>
+    run('npx', ['--no-install', ...args], { cwd: ROOT, env });
   timed('migrate', () => npx(['tsx', 'server/db/migrate.ts', 'up']));
   timed('typecheck', () => npx(['tsc', '-b']));
   timed('lint', () => {
@@ -62,22 +70,36 @@ try {
   timed('build client', () => npx(['vite', 'build', '--logLevel', 'warn']));
   mkdirSync(join(ROOT, 'test-output'), { recursive: true });
   const report = join(ROOT, 'test-output', 'vitest.json');
+  let vitestError = null;
   try {
     timed('vitest', () =>
-      npx(['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`]),
+      npx([
+        'vitest',
+        'run',
+        '--reporter=default',
+        '--reporter=json',
+        `--outputFile.json=${report}`,
+      ]),
     );
-  } finally {
-    if (existsSync(report)) {
-      const r = JSON.parse(readFileSync(report, 'utf8'));
-      console.log(`\n${r.numPassedTests} passed, ${r.numFailedTests} failed, ${r.numPendingTests + (r.numTodoTests ?? 0)} skipped`);
-      if (r.numTotalTests === 0) throw new Error('no test ran');
-    }
+  } catch (error) {
+    vitestError = error;
   }
+  if (existsSync(report)) {
+    const r = JSON.parse(readFileSync(report, 'utf8'));
+    const skipped = r.numPendingTests + (r.numTodoTests ?? 0);
+    console.log(
+      `\n${r.numPassedTests} passed, ${r.numFailedTests} failed, ${skipped} skipped`,
+    );
+    if (r.numTotalTests === 0) vitestError = new Error('no test ran');
+  }
+  if (vitestError) throw vitestError;
 } catch (error) {
   console.error(String(error instanceof Error ? error.message : error));
   exitCode = 1;
 } finally {
   if (stopCluster) stopCluster();
-  console.log(`${timings.join(' · ')} · total ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  console.log(
+    `${timings.join(' · ')} · total ${((Date.now() - started) / 1000).toFixed(1)} s`,
+  );
   process.exit(exitCode);
 }

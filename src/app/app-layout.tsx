@@ -12,13 +12,27 @@ export function AppLayout() {
   const location = useLocation();
 
   if (session.isPending) return <Loading what="your session" />;
-  if (session.isError) return <div className="p-6"><ErrorNotice error={session.error} onRetry={() => void session.refetch()} /></div>;
-  if (!session.data) return <Navigate to="/sign-in" replace state={{ from: location.pathname }} />;
+  if (session.isError)
+    return (
+      <div className="p-6">
+        <ErrorNotice
+          error={session.error}
+          onRetry={() => void session.refetch()}
+        />
+      </div>
+    );
+  if (!session.data)
+    return (
+      <Navigate to="/sign-in" replace state={{ from: location.pathname }} />
+    );
 
   const current = session.data;
   return (
     <div className="min-h-screen">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:p-2">
+      <a
+        href="#main"
+        className="sr-only focus:not-sr-only focus:absolute focus:p-2"
+      >
         Skip to content
       </a>
       <header className="bg-lamina-950 text-white">
@@ -41,7 +55,11 @@ export function AppLayout() {
           <span className="text-sm text-lamina-200" data-testid="signed-in-as">
             {current.user.displayName} · {current.user.role}
           </span>
-          <Button variant="secondary" onClick={() => signOut.mutate()} disabled={signOut.isPending}>
+          <Button
+            variant="secondary"
+            onClick={() => signOut.mutate()}
+            disabled={signOut.isPending}
+          >
             Sign out
           </Button>
         </div>

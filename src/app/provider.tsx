@@ -20,8 +20,12 @@ export class ErrorBoundary extends Component<
   render() {
     if (this.state.failed) {
       return (
-        <div role="alert" className="m-6 rounded-lg border border-red-200 bg-red-50 p-4 text-sm text-red-800">
-          This part of the page ({this.props.label}) failed to display. Reload the page to try again.
+        <div
+          role="alert"
+          className="m-6 rounded-lg border border-red-200 bg-red-50 p-4 text-sm text-red-800"
+        >
+          This part of the page ({this.props.label}) failed to display. Reload
+          the page to try again.
         </div>
       );
     }

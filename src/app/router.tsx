@@ -13,17 +13,38 @@ const page = (load: () => Promise<{ default: () => ReactNode }>) => {
 };
 
 const router = createBrowserRouter([
-  { path: '/sign-in', element: page(() => import('./routes/sign-in-page.tsx')) },
-  { path: '/forgot-password', element: page(() => import('./routes/forgot-password-page.tsx')) },
-  { path: '/welcome/:token', element: page(() => import('./routes/set-password-page.tsx')) },
-  { path: '/reset-password/:token', element: page(() => import('./routes/set-password-page.tsx')) },
+  {
+    path: '/sign-in',
+    element: page(() => import('./routes/sign-in-page.tsx')),
+  },
+  {
+    path: '/forgot-password',
+    element: page(() => import('./routes/forgot-password-page.tsx')),
+  },
+  {
+    path: '/welcome/:token',
+    element: page(() => import('./routes/set-password-page.tsx')),
+  },
+  {
+    path: '/reset-password/:token',
+    element: page(() => import('./routes/set-password-page.tsx')),
+  },
   {
     element: <AppLayout />,
     children: [
       { index: true, element: page(() => import('./routes/home-page.tsx')) },
-      { path: 'account', element: page(() => import('./routes/account-page.tsx')) },
-      { path: 'admin/users', element: page(() => import('./routes/admin-users-page.tsx')) },
-      { path: 'admin/mail', element: page(() => import('./routes/sent-mail-page.tsx')) },
+      {
+        path: 'account',
+        element: page(() => import('./routes/account-page.tsx')),
+      },
+      {
+        path: 'admin/users',
+        element: page(() => import('./routes/admin-users-page.tsx')),
+      },
+      {
+        path: 'admin/mail',
+        element: page(() => import('./routes/sent-mail-page.tsx')),
+      },
       { path: '*', element: page(() => import('./routes/not-found-page.tsx')) },
     ],
   },

@@ -6,7 +6,12 @@ export class ApiError extends Error {
   readonly code: ErrorCode | 'network_error';
   readonly details: ErrorDetail[];
 
-  constructor(status: number, code: ApiError['code'], message: string, details: ErrorDetail[] = []) {
+  constructor(
+    status: number,
+    code: ApiError['code'],
+    message: string,
+    details: ErrorDetail[] = [],
+  ) {
     super(message);
     this.name = 'ApiError';
     this.status = status;
@@ -23,7 +28,11 @@ export class ApiError extends Error {
 type Method = 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
 
 /** Calls the API and returns its `data` member; throws ApiError otherwise. */
-export async function apiRequest<T>(method: Method, url: string, body?: unknown): Promise<T> {
+export async function apiRequest<T>(
+  method: Method,
+  url: string,
+  body?: unknown,
+): Promise<T> {
   let response: Response;
   try {
     response = await fetch(url, {
@@ -33,7 +42,11 @@ export async function apiRequest<T>(method: Method, url: string, body?: unknown)
       body: body === undefined ? undefined : JSON.stringify(body),
     });
   } catch {
-    throw new ApiError(0, 'network_error', 'The server cannot be reached. Check your connection.');
+    throw new ApiError(
+      0,
+      'network_error',
+      'The server cannot be reached. Check your connection.',
+    );
   }
   if (response.status === 204) return undefined as T;
   const text = await response.text();
@@ -52,7 +65,8 @@ export async function apiRequest<T>(method: Method, url: string, body?: unknown)
 
 export const api = {
   get: <T>(url: string) => apiRequest<T>('GET', url),
-  post: <T>(url: string, body?: unknown) => apiRequest<T>('POST', url, body ?? {}),
+  post: <T>(url: string, body?: unknown) =>
+    apiRequest<T>('POST', url, body ?? {}),
   patch: <T>(url: string, body: unknown) => apiRequest<T>('PATCH', url, body),
   put: <T>(url: string, body: unknown) => apiRequest<T>('PUT', url, body),
   delete: <T>(url: string) => apiRequest<T>('DELETE', url),

@@ -6,7 +6,11 @@ export const queryClient = new QueryClient({
     queries: {
       staleTime: 30_000,
       retry: (count, error) =>
-        !(error instanceof ApiError && error.status >= 400 && error.status < 500) && count < 2,
+        !(
+          error instanceof ApiError &&
+          error.status >= 400 &&
+          error.status < 500
+        ) && count < 2,
     },
   },
 });

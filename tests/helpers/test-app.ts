@@ -21,10 +21,15 @@ export interface TestApp {
  * A real app on the test database with its own fake SMTP server on a free
  * port, so mail in tests goes through a real SMTP conversation.
  */
-export async function startTestApp(overrides: Partial<AppConfig> = {}): Promise<TestApp> {
+export async function startTestApp(
+  overrides: Partial<AppConfig> = {},
+): Promise<TestApp> {
   const config = { ...loadConfig(), publicUrl: TEST_ORIGIN, ...overrides };
   const smtp = await startFakeSmtpServer(0);
-  const mailer = createMailer({ from: config.mailFrom, fakeSmtpPort: smtp.port });
+  const mailer = createMailer({
+    from: config.mailFrom,
+    fakeSmtpPort: smtp.port,
+  });
   const built = createApp({ config, mailer });
   return {
     app: built.app,
@@ -48,7 +53,10 @@ export async function signedInAgent(
 ): Promise<{ agent: TestAgent; user: Awaited<ReturnType<typeof buildUser>> }> {
   const user = await buildUser({ role });
   const agent = browserAgent(app);
-  const res = await agent.post('/api/auth/sign-in').send({ email: user.email, password: TEST_PASSWORD });
-  if (res.status !== 200) throw new Error(`sign-in as ${role} failed: ${res.status} ${res.text}`);
+  const res = await agent
+    .post('/api/auth/sign-in')
+    .send({ email: user.email, password: TEST_PASSWORD });
+  if (res.status !== 200)
+    throw new Error(`sign-in as ${role} failed: ${res.status} ${res.text}`);
   return { agent, user };
 }

@@ -36,7 +36,11 @@ export default function AccountPage() {
         <dt className="text-slate-500">Role</dt>
         <dd className="col-span-2">{data.user.role}</dd>
       </dl>
-      <form onSubmit={handleSubmit} className="space-y-4 rounded-xl bg-white p-6 shadow-sm" noValidate>
+      <form
+        onSubmit={handleSubmit}
+        className="space-y-4 rounded-xl bg-white p-6 shadow-sm"
+        noValidate
+      >
         <h2 className="text-lg font-semibold">Change your password</h2>
         <TextField
           label="Current password"

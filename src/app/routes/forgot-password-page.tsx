@@ -16,7 +16,9 @@ export default function ForgotPasswordPage() {
   return (
     <div className="flex min-h-screen items-center justify-center bg-lamina-950 px-4">
       <div className="w-full max-w-md rounded-2xl bg-white p-8 shadow-xl">
-        <h1 className="text-2xl font-semibold text-lamina-900">Reset your password</h1>
+        <h1 className="text-2xl font-semibold text-lamina-900">
+          Reset your password
+        </h1>
         {request.isSuccess ? (
           <p role="status" className="mt-4 text-sm text-slate-700">
             {request.data.message}
@@ -29,9 +31,16 @@ export default function ForgotPasswordPage() {
               autoComplete="email"
               value={email}
               onChange={(e) => setEmail(e.target.value)}
-              error={error?.fieldMessage('email') ?? (error?.details.length ? undefined : error?.message)}
+              error={
+                error?.fieldMessage('email') ??
+                (error?.details.length ? undefined : error?.message)
+              }
             />
-            <Button type="submit" className="w-full" disabled={request.isPending}>
+            <Button
+              type="submit"
+              className="w-full"
+              disabled={request.isPending}
+            >
               Send me a link
             </Button>
           </form>

@@ -6,7 +6,10 @@ import type { Role } from '../../../shared/permissions.ts';
 const GREETING: Record<Role, { title: string; lines: string[] }> = {
   admin: {
     title: 'Administration',
-    lines: ['Invite staff and set their roles under Users.', 'Keep the equipment register up to date.'],
+    lines: [
+      'Invite staff and set their roles under Users.',
+      'Keep the equipment register up to date.',
+    ],
   },
   physicist: {
     title: 'Studies to review and sign',

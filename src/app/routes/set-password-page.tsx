@@ -3,7 +3,10 @@ import { Link, useLocation, useParams } from 'react-router-dom';
 import { Button } from '../../components/ui/button.tsx';
 import { TextField } from '../../components/ui/field.tsx';
 import { ErrorNotice, Loading } from '../../components/ui/page-state.tsx';
-import { useCompleteToken, useTokenInfo } from '../../features/auth/api/account.ts';
+import {
+  useCompleteToken,
+  useTokenInfo,
+} from '../../features/auth/api/account.ts';
 import { ApiError } from '../../lib/api-client.ts';
 
 /** Where an invitation or password-reset link lands. */
@@ -11,7 +14,9 @@ export default function SetPasswordPage() {
   const { token = '' } = useParams();
   const isInvitation = useLocation().pathname.startsWith('/welcome/');
   const info = useTokenInfo(token);
-  const complete = useCompleteToken(isInvitation ? 'invitation' : 'password_reset');
+  const complete = useCompleteToken(
+    isInvitation ? 'invitation' : 'password_reset',
+  );
   const [password, setPassword] = useState('');
   const [repeat, setRepeat] = useState('');
   const [mismatch, setMismatch] = useState(false);
@@ -38,7 +43,10 @@ export default function SetPasswordPage() {
         {complete.isSuccess && (
           <p role="status" className="mt-4 text-sm text-slate-700">
             Your password is set.{' '}
-            <Link to="/sign-in" className="font-semibold text-lamina-700 underline">
+            <Link
+              to="/sign-in"
+              className="font-semibold text-lamina-700 underline"
+            >
               Sign in
             </Link>
           </p>
@@ -65,8 +73,14 @@ export default function SetPasswordPage() {
               onChange={(e) => setRepeat(e.target.value)}
               error={mismatch ? 'The two passwords differ.' : undefined}
             />
-            {error && error.details.length === 0 && <ErrorNotice error={error} />}
-            <Button type="submit" className="w-full" disabled={complete.isPending}>
+            {error && error.details.length === 0 && (
+              <ErrorNotice error={error} />
+            )}
+            <Button
+              type="submit"
+              className="w-full"
+              disabled={complete.isPending}
+            >
               Set password
             </Button>
           </form>

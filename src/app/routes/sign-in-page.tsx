@@ -13,13 +13,17 @@ export default function SignInPage() {
   const [email, setEmail] = useState('');
   const [password, setPassword] = useState('');
 
-  if (session.data) return <Navigate to={HOME_BY_ROLE[session.data.user.role]} replace />;
+  if (session.data)
+    return <Navigate to={HOME_BY_ROLE[session.data.user.role]} replace />;
 
   const handleSubmit = (event: FormEvent) => {
     event.preventDefault();
     signIn.mutate(
       { email, password },
-      { onSuccess: (s) => navigate(HOME_BY_ROLE[s.user.role], { replace: true }) },
+      {
+        onSuccess: (s) =>
+          navigate(HOME_BY_ROLE[s.user.role], { replace: true }),
+      },
     );
   };
   const error = signIn.error instanceof ApiError ? signIn.error : null;
@@ -29,7 +33,8 @@ export default function SignInPage() {
       <div className="w-full max-w-md rounded-2xl bg-white p-8 shadow-xl">
         <h1 className="text-3xl font-semibold text-lamina-900">Lamella</h1>
         <p className="mt-1 text-sm text-slate-600">
-          Grid versus no-grid image quality, measured from your own rooms&apos; raw images.
+          Grid versus no-grid image quality, measured from your own rooms&apos;
+          raw images.
         </p>
         <form onSubmit={handleSubmit} className="mt-6 space-y-4" noValidate>
           <TextField
@@ -51,7 +56,10 @@ export default function SignInPage() {
             error={error?.fieldMessage('password')}
           />
           {error && error.details.length === 0 && (
-            <p role="alert" className="rounded-md bg-red-50 p-3 text-sm text-red-800">
+            <p
+              role="alert"
+              className="rounded-md bg-red-50 p-3 text-sm text-red-800"
+            >
               {error.message}
             </p>
           )}

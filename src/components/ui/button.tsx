@@ -3,7 +3,8 @@ import type { ButtonHTMLAttributes } from 'react';
 type Variant = 'primary' | 'secondary' | 'danger' | 'quiet';
 
 const VARIANTS: Record<Variant, string> = {
-  primary: 'bg-lamina-700 text-white hover:bg-lamina-800 disabled:bg-lamina-300',
+  primary:
+    'bg-lamina-700 text-white hover:bg-lamina-800 disabled:bg-lamina-300',
   secondary:
     'bg-white text-lamina-800 ring-1 ring-lamina-300 hover:bg-lamina-50 disabled:text-slate-400',
   danger: 'bg-red-700 text-white hover:bg-red-800 disabled:bg-red-300',

@@ -1,4 +1,9 @@
-import { useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes } from 'react';
+import {
+  useId,
+  type InputHTMLAttributes,
+  type ReactNode,
+  type SelectHTMLAttributes,
+} from 'react';
 
 interface FieldProps {
   label: string;
@@ -10,17 +15,27 @@ const inputClass =
   'mt-1 block w-full rounded-lg border border-slate-300 bg-white px-3 py-2 text-sm shadow-sm focus:border-lamina-500 aria-[invalid=true]:border-red-600';
 
 /** A labelled input with its error message tied to it for screen readers. */
-export function TextField({ label, error, hint, ...input }: FieldProps & InputHTMLAttributes<HTMLInputElement>) {
+export function TextField({
+  label,
+  error,
+  hint,
+  ...input
+}: FieldProps & InputHTMLAttributes<HTMLInputElement>) {
   const id = useId();
   return (
     <div>
-      <label htmlFor={id} className="block text-sm font-semibold text-slate-700">
+      <label
+        htmlFor={id}
+        className="block text-sm font-semibold text-slate-700"
+      >
         {label}
       </label>
       <input
         id={id}
         aria-invalid={error ? true : undefined}
-        aria-describedby={error ? `${id}-error` : hint ? `${id}-hint` : undefined}
+        aria-describedby={
+          error ? `${id}-error` : hint ? `${id}-hint` : undefined
+        }
         className={inputClass}
         {...input}
       />
@@ -30,7 +45,11 @@ export function TextField({ label, error, hint, ...input }: FieldProps & InputHT
         </p>
       )}
       {error && (
-        <p id={`${id}-error`} role="alert" className="mt-1 text-xs text-red-700">
+        <p
+          id={`${id}-error`}
+          role="alert"
+          className="mt-1 text-xs text-red-700"
+        >
           {error}
         </p>
       )}
@@ -48,10 +67,18 @@ export function SelectField({
   const id = useId();
   return (
     <div>
-      <label htmlFor={id} className="block text-sm font-semibold text-slate-700">
+      <label
+        htmlFor={id}
+        className="block text-sm font-semibold text-slate-700"
+      >
         {label}
       </label>
-      <select id={id} aria-invalid={error ? true : undefined} className={inputClass} {...select}>
+      <select
+        id={id}
+        aria-invalid={error ? true : undefined}
+        className={inputClass}
+        {...select}
+      >
         {children}
       </select>
       {error && (

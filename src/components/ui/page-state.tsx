@@ -9,14 +9,29 @@ export function Loading({ what }: { what: string }) {
   );
 }
 
-export function ErrorNotice({ error, onRetry }: { error: unknown; onRetry?: () => void }) {
+export function ErrorNotice({
+  error,
+  onRetry,
+}: {
+  error: unknown;
+  onRetry?: () => void;
+}) {
   const message =
-    error instanceof ApiError ? error.message : 'Something went wrong while loading this page.';
+    error instanceof ApiError
+      ? error.message
+      : 'Something went wrong while loading this page.';
   return (
-    <div role="alert" className="rounded-lg border border-red-200 bg-red-50 p-4 text-sm text-red-800">
+    <div
+      role="alert"
+      className="rounded-lg border border-red-200 bg-red-50 p-4 text-sm text-red-800"
+    >
       <p>{message}</p>
       {onRetry && (
-        <button type="button" onClick={onRetry} className="mt-2 font-semibold underline">
+        <button
+          type="button"
+          onClick={onRetry}
+          className="mt-2 font-semibold underline"
+        >
           Try again
         </button>
       )}
@@ -32,7 +47,13 @@ export function Empty({ children }: { children: ReactNode }) {
   );
 }
 
-export function PageTitle({ children, actions }: { children: ReactNode; actions?: ReactNode }) {
+export function PageTitle({
+  children,
+  actions,
+}: {
+  children: ReactNode;
+  actions?: ReactNode;
+}) {
   return (
     <div className="mb-6 flex flex-wrap items-center justify-between gap-4">
       <h1 className="text-2xl font-semibold text-lamina-950">{children}</h1>

@@ -1,5 +1,14 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { InviteUserInput, UpdateUserInput, UserDto } from '../../../../shared/schemas/auth.schema.ts';
+import {
+  queryOptions,
+  useMutation,
+  useQuery,
+  useQueryClient,
+} from '@tanstack/react-query';
+import type {
+  InviteUserInput,
+  UpdateUserInput,
+  UserDto,
+} from '../../../../shared/schemas/auth.schema.ts';
 import { api } from '../../../lib/api-client.ts';
 
 export const usersQueryOptions = queryOptions({
@@ -12,8 +21,10 @@ export const useUsers = () => useQuery(usersQueryOptions);
 export function useInviteUser() {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: (input: InviteUserInput) => api.post<UserDto>('/api/users', input),
-    onSuccess: () => client.invalidateQueries({ queryKey: usersQueryOptions.queryKey }),
+    mutationFn: (input: InviteUserInput) =>
+      api.post<UserDto>('/api/users', input),
+    onSuccess: () =>
+      client.invalidateQueries({ queryKey: usersQueryOptions.queryKey }),
   });
 }
 
@@ -22,6 +33,7 @@ export function useUpdateUser() {
   return useMutation({
     mutationFn: ({ id, change }: { id: number; change: UpdateUserInput }) =>
       api.patch<UserDto>(`/api/users/${id}`, change),
-    onSuccess: () => client.invalidateQueries({ queryKey: usersQueryOptions.queryKey }),
+    onSuccess: () =>
+      client.invalidateQueries({ queryKey: usersQueryOptions.queryKey }),
   });
 }

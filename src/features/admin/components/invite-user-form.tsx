@@ -1,5 +1,9 @@
 import { useState, type FormEvent } from 'react';
-import { ROLE_DESCRIPTIONS, ROLES, type Role } from '../../../../shared/permissions.ts';
+import {
+  ROLE_DESCRIPTIONS,
+  ROLES,
+  type Role,
+} from '../../../../shared/permissions.ts';
 import { Button } from '../../../components/ui/button.tsx';
 import { SelectField, TextField } from '../../../components/ui/field.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
@@ -26,7 +30,11 @@ export function InviteUserForm() {
   };
 
   return (
-    <form onSubmit={handleSubmit} className="grid gap-4 rounded-xl bg-white p-6 shadow-sm md:grid-cols-4" noValidate>
+    <form
+      onSubmit={handleSubmit}
+      className="grid gap-4 rounded-xl bg-white p-6 shadow-sm md:grid-cols-4"
+      noValidate
+    >
       <h2 className="text-lg font-semibold md:col-span-4">Invite a user</h2>
       <TextField
         label="Name"
@@ -41,7 +49,11 @@ export function InviteUserForm() {
         onChange={(e) => setEmail(e.target.value)}
         error={error?.fieldMessage('email')}
       />
-      <SelectField label="Role" value={role} onChange={(e) => setRole(e.target.value as Role)}>
+      <SelectField
+        label="Role"
+        value={role}
+        onChange={(e) => setRole(e.target.value as Role)}
+      >
         {ROLES.map((r) => (
           <option key={r} value={r}>
             {r}
@@ -53,7 +65,9 @@ export function InviteUserForm() {
           Send invitation
         </Button>
       </div>
-      <p className="text-xs text-slate-500 md:col-span-4">{ROLE_DESCRIPTIONS[role]}</p>
+      <p className="text-xs text-slate-500 md:col-span-4">
+        {ROLE_DESCRIPTIONS[role]}
+      </p>
       {error && error.details.length === 0 && (
         <p role="alert" className="text-sm text-red-700 md:col-span-4">
           {error.message}

@@ -23,7 +23,11 @@ export function UsersTable({ users }: { users: UserDto[] }) {
         </thead>
         <tbody>
           {users.map((user) => (
-            <tr key={user.id} className="border-t border-slate-100" data-testid={`user-row-${user.email}`}>
+            <tr
+              key={user.id}
+              className="border-t border-slate-100"
+              data-testid={`user-row-${user.email}`}
+            >
               <td className="px-4 py-2">{user.displayName}</td>
               <td className="px-4 py-2">{user.email}</td>
               <td className="px-4 py-2">
@@ -32,7 +36,12 @@ export function UsersTable({ users }: { users: UserDto[] }) {
                     aria-label={`Role of ${user.displayName}`}
                     value={user.role}
                     className="rounded border border-slate-300 px-2 py-1"
-                    onChange={(e) => update.mutate({ id: user.id, change: { role: e.target.value as Role } })}
+                    onChange={(e) =>
+                      update.mutate({
+                        id: user.id,
+                        change: { role: e.target.value as Role },
+                      })
+                    }
                   >
                     {ROLES.map((r) => (
                       <option key={r} value={r}>
@@ -48,8 +57,15 @@ export function UsersTable({ users }: { users: UserDto[] }) {
               <td className="px-4 py-2 text-right">
                 {user.permissions.edit && (
                   <Button
-                    variant={user.status === 'disabled' ? 'secondary' : 'danger'}
-                    onClick={() => update.mutate({ id: user.id, change: { disabled: user.status !== 'disabled' } })}
+                    variant={
+                      user.status === 'disabled' ? 'secondary' : 'danger'
+                    }
+                    onClick={() =>
+                      update.mutate({
+                        id: user.id,
+                        change: { disabled: user.status !== 'disabled' },
+                      })
+                    }
                   >
                     {user.status === 'disabled' ? 'Enable' : 'Disable'}
                   </Button>

@@ -1,5 +1,13 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { SessionDto, SignInInput } from '../../../../shared/schemas/auth.schema.ts';
+import {
+  queryOptions,
+  useMutation,
+  useQuery,
+  useQueryClient,
+} from '@tanstack/react-query';
+import type {
+  SessionDto,
+  SignInInput,
+} from '../../../../shared/schemas/auth.schema.ts';
 import { api, ApiError } from '../../../lib/api-client.ts';
 
 export const sessionQueryOptions = queryOptions({
@@ -20,7 +28,8 @@ export const useSession = () => useQuery(sessionQueryOptions);
 export function useSignIn() {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: (input: SignInInput) => api.post<SessionDto>('/api/auth/sign-in', input),
+    mutationFn: (input: SignInInput) =>
+      api.post<SessionDto>('/api/auth/sign-in', input),
     onSuccess: (session) => {
       client.clear();
       client.setQueryData(sessionQueryOptions.queryKey, session);

@@ -1,0 +1,48 @@
+import { existsSync } from 'node:fs';
+import { createServer, type Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { createApp } from '../../../server/app.ts';
+import { loadConfig, type AppConfig } from '../../../server/config/env.ts';
+import { fromRoot } from '../../../server/config/paths.ts';
+import { startFakeSmtpServer } from '../../../server/mail/fake-smtp-server.ts';
+import { createMailer } from '../../../server/mail/mailer.ts';
+
+export interface E2eServer {
+  baseUrl: string;
+  config: AppConfig;
+  close(): Promise<void>;
+}
+
+/**
+ * A real Lamella server on a free loopback port, on the test database,
+ * serving the built client from dist/client, with its own fake SMTP server.
+ */
+export async function startE2eServer(
+  overrides: Partial<AppConfig> = {},
+): Promise<E2eServer> {
+  if (!existsSync(fromRoot('dist/client/index.html'))) {
+    throw new Error(
+      'dist/client is missing: run `npx vite build` first (npm test does).',
+    );
+  }
+  const http: Server = createServer();
+  await new Promise<void>((resolve) => http.listen(0, '127.0.0.1', resolve));
+  const baseUrl = `http://127.0.0.1:${(http.address() as AddressInfo).port}`;
+  const smtp = await startFakeSmtpServer(0);
+  const config = { ...loadConfig(), publicUrl: baseUrl, ...overrides };
+  const built = createApp({
+    config,
+    mailer: createMailer({ from: config.mailFrom, fakeSmtpPort: smtp.port }),
+  });
+  http.on('request', built.app);
+  return {
+    baseUrl,
+    config,
+    close: async () => {
+      http.closeAllConnections();
+      await new Promise<void>((resolve) => http.close(() => resolve()));
+      await built.close();
+      await smtp.close();
+    },
+  };
+}
