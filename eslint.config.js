@@ -19,15 +19,30 @@ export default tseslint.config(
   {
     languageOptions: { globals: { ...globals.node } },
     rules: {
+      eqeqeq: ['error', 'always'],
+      curly: ['error', 'multi-line'],
+    },
+  },
+  {
+    files: ['**/*.{ts,tsx}'],
+    languageOptions: {
+      parserOptions: {
+        projectService: true,
+        tsconfigRootDir: import.meta.dirname,
+      },
+    },
+    rules: {
+      '@typescript-eslint/no-floating-promises': 'error',
+      '@typescript-eslint/no-misused-promises': [
+        'error',
+        { checksVoidReturn: { attributes: false } },
+      ],
       '@typescript-eslint/no-explicit-any': 'error',
       '@typescript-eslint/consistent-type-imports': 'error',
       '@typescript-eslint/no-unused-vars': [
         'error',
         { argsIgnorePattern: '^_', varsIgnorePattern: '^_' },
       ],
-      eqeqeq: ['error', 'always'],
-      curly: ['error', 'multi-line'],
-      'no-console': 'off',
     },
   },
   {

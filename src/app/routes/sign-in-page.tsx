@@ -21,8 +21,9 @@ export default function SignInPage() {
     signIn.mutate(
       { email, password },
       {
-        onSuccess: (s) =>
-          navigate(HOME_BY_ROLE[s.user.role], { replace: true }),
+        onSuccess: (s) => {
+          void navigate(HOME_BY_ROLE[s.user.role], { replace: true });
+        },
       },
     );
   };
