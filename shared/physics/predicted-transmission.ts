@@ -320,7 +320,11 @@ export function scatterTransmissionAt(
   return scatterTransmissionWith(grid, energyKeV, scatterDirections(options));
 }
 
-/** Words that go beside every predicted Ts. */
+/**
+ * The scatter model in words, to print beside every predicted Ts.
+ * @param options the options the prediction used (largest angle, degrees).
+ * @see Day & Dance, Phys Med Biol 1983;28:1429.
+ */
 export function describeScatterModel(
   options: ScatterModelOptions = {},
 ): string {
