@@ -3,6 +3,7 @@ import type { AppDeps } from '../app.ts';
 import { AppError } from '../errors.ts';
 import { authenticate } from '../middleware/authenticate.ts';
 import { authRouter } from './auth.routes.ts';
+import { equipmentRouter } from './equipment.routes.ts';
 import { mailRouter } from './mail.routes.ts';
 import { usersRouter } from './users.routes.ts';
 
@@ -15,6 +16,7 @@ export function apiRouter(deps: AppDeps): Router {
   router.use('/auth', authRouter(deps.config, deps.mailer));
   router.use('/users', authenticate, usersRouter(deps.config, deps.mailer));
   router.use('/mail', authenticate, mailRouter());
+  router.use('/equipment', authenticate, equipmentRouter());
   router.use((req) => {
     throw new AppError(
       404,

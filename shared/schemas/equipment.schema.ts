@@ -1,0 +1,649 @@
+import { z } from 'zod';
+import {
+  fitDetectorCalibration,
+  type CalibrationFit,
+  type CalibrationModel,
+  type CalibrationPoint,
+  type CalibrationResult,
+} from '../analysis/detector-calibration.ts';
+import { DomainError, type ErrorDetail } from '../errors.ts';
+import { MATERIAL_IDS, type MaterialId } from '../physics/attenuation.ts';
+import {
+  COMMON_GRID_RANGES,
+  deriveGridConstruction,
+  type GridConstructionInput,
+  type GridQuantity,
+} from '../physics/grid-construction.ts';
+import type { Warning } from '../warnings.ts';
+
+/** Kinds of image receptor the register knows. */
+export const DETECTOR_TYPES = [
+  'flat_panel_indirect',
+  'flat_panel_direct',
+  'computed_radiography',
+  'other',
+] as const;
+export type DetectorType = (typeof DETECTOR_TYPES)[number];
+
+export const DETECTOR_TYPE_LABELS: Record<DetectorType, string> = {
+  flat_panel_indirect: 'Flat panel, indirect (scintillator)',
+  flat_panel_direct: 'Flat panel, direct (photoconductor)',
+  computed_radiography: 'Computed radiography (storage phosphor)',
+  other: 'Other',
+};
+
+/** The conversion-function models a calibration can be fitted with. */
+export const CALIBRATION_MODELS = [
+  'linear',
+  'logarithmic',
+  'power',
+] as const satisfies readonly CalibrationModel[];
+
+/** The five construction quantities, in the order forms show them. */
+export const GRID_QUANTITIES = [
+  'ratio',
+  'stripFrequencyPerCm',
+  'stripHeightUm',
+  'interspaceWidthUm',
+  'stripThicknessUm',
+] as const satisfies readonly GridQuantity[];
+
+interface FieldLimit {
+  label: string;
+  unit: string;
+  min: number;
+  max: number;
+  /** Where the bounds come from, said in every message about them. */
+  basis: 'common practice range' | 'plausibility bound';
+}
+
+/**
+ * Accepted ranges of grid values. Ratio, frequency and focusing distance are
+ * the usual ranges of the trade (COMMON_GRID_RANGES, common practice); the
+ * lengths are loose bounds that catch values typed in the wrong unit.
+ */
+export const GRID_FIELD_LIMITS = {
+  ratio: {
+    label: 'Grid ratio',
+    unit: '',
+    ...COMMON_GRID_RANGES.ratio,
+    basis: 'common practice range',
+  },
+  stripFrequencyPerCm: {
+    label: 'Strip frequency',
+    unit: 'lines/cm',
+    ...COMMON_GRID_RANGES.stripFrequencyPerCm,
+    basis: 'common practice range',
+  },
+  stripHeightUm: {
+    label: 'Strip height',
+    unit: 'µm',
+    min: 100,
+    max: 10_000,
+    basis: 'plausibility bound',
+  },
+  interspaceWidthUm: {
+    label: 'Interspace width',
+    unit: 'µm',
+    min: 20,
+    max: 2_000,
+    basis: 'plausibility bound',
+  },
+  stripThicknessUm: {
+    label: 'Strip thickness',
+    unit: 'µm',
+    min: 5,
+    max: 500,
+    basis: 'plausibility bound',
+  },
+  focusDistanceCm: {
+    label: 'Focusing distance',
+    unit: 'cm',
+    ...COMMON_GRID_RANGES.focusDistanceCm,
+    basis: 'common practice range',
+  },
+  focusRangeMinCm: {
+    label: 'Near end of the focusing range',
+    unit: 'cm',
+    min: 20,
+    max: 800,
+    basis: 'plausibility bound',
+  },
+  focusRangeMaxCm: {
+    label: 'Far end of the focusing range',
+    unit: 'cm',
+    min: 20,
+    max: 800,
+    basis: 'plausibility bound',
+  },
+} as const satisfies Record<string, FieldLimit>;
+
+/** "Grid ratio must be between 2 and 20 (common practice range)." */
+export function limitMessage(limit: FieldLimit): string {
+  const unit = limit.unit ? ` ${limit.unit}` : '';
+  return `${limit.label} must be between ${limit.min} and ${limit.max}${unit} (${limit.basis}).`;
+}
+
+const limitedNumber = (limit: FieldLimit) =>
+  z
+    .number({ error: `${limit.label} must be a number.` })
+    .min(limit.min, limitMessage(limit))
+    .max(limit.max, limitMessage(limit))
+    .nullish();
+
+const requiredText = (what: string, max: number) =>
+  z
+    .string({ error: `Enter the ${what}.` })
+    .trim()
+    .min(1, `Enter the ${what}.`)
+    .max(max, `The ${what} has at most ${max} characters.`);
+
+/** Optional text: an empty string is stored as null (no value). */
+const optionalText = (what: string, max: number) =>
+  z
+    .string({ error: `The ${what} must be text.` })
+    .trim()
+    .max(max, `The ${what} has at most ${max} characters.`)
+    .nullish()
+    .transform((value) => (value === '' ? null : value));
+
+const id = (what: string) =>
+  z
+    .number({ error: `Choose a ${what}.` })
+    .int()
+    .positive(`Choose a ${what}.`);
+
+const material = (what: string) =>
+  z.enum(MATERIAL_IDS, { error: `Choose a known ${what} material.` }).nullish();
+
+const fraction = (label: string) =>
+  z
+    .number({ error: `${label} must be a number.` })
+    .gt(0, `${label} is a transmission between 0 and 1.`)
+    .max(1, `${label} is a transmission between 0 and 1.`)
+    .nullish();
+
+const factor = (label: string, min: number, max: number) =>
+  z
+    .number({ error: `${label} must be a number.` })
+    .min(
+      min,
+      `${label} must be between ${min} and ${max} (plausibility bound).`,
+    )
+    .max(
+      max,
+      `${label} must be between ${min} and ${max} (plausibility bound).`,
+    )
+    .nullish();
+
+const nothingToChange = (value: object) => Object.keys(value).length > 0;
+
+export const idParamsSchema = z.object({
+  id: z.coerce.number().int().positive(),
+});
+export const calibrationParamsSchema = z.object({
+  id: z.coerce.number().int().positive(),
+  calibrationId: z.coerce.number().int().positive(),
+});
+export const byRoomQuerySchema = z.object({
+  roomId: z.coerce.number().int().positive().optional(),
+});
+
+export const createRoomSchema = z.object({
+  name: requiredText('room name', 120),
+  site: requiredText('site', 160),
+  modalityNotes: optionalText('modality notes', 2000),
+});
+export type CreateRoomInput = z.infer<typeof createRoomSchema>;
+export const updateRoomSchema = createRoomSchema
+  .partial()
+  .refine(nothingToChange, 'Nothing to change.');
+export type UpdateRoomInput = z.infer<typeof updateRoomSchema>;
+
+export const createXrayUnitSchema = z.object({
+  roomId: id('room'),
+  name: requiredText('unit name', 120),
+  model: optionalText('model', 160),
+  serial: optionalText('serial number', 80),
+});
+export type CreateXrayUnitInput = z.infer<typeof createXrayUnitSchema>;
+export const updateXrayUnitSchema = createXrayUnitSchema
+  .partial()
+  .refine(nothingToChange, 'Nothing to change.');
+export type UpdateXrayUnitInput = z.infer<typeof updateXrayUnitSchema>;
+
+export const createDetectorSchema = z.object({
+  roomId: id('room'),
+  name: requiredText('detector name', 120),
+  model: optionalText('model', 160),
+  detectorType: z.enum(DETECTOR_TYPES, { error: 'Choose the detector type.' }),
+  pixelPitchUm: z
+    .number({ error: 'Pixel pitch must be a number.' })
+    .min(20, 'Pixel pitch must be between 20 and 1000 µm (plausibility bound).')
+    .max(
+      1000,
+      'Pixel pitch must be between 20 and 1000 µm (plausibility bound).',
+    ),
+  serial: optionalText('serial number', 80),
+});
+export type CreateDetectorInput = z.infer<typeof createDetectorSchema>;
+export const updateDetectorSchema = createDetectorSchema
+  .partial()
+  .refine(nothingToChange, 'Nothing to change.');
+export type UpdateDetectorInput = z.infer<typeof updateDetectorSchema>;
+
+const gridConstructionShape = {
+  ratio: limitedNumber(GRID_FIELD_LIMITS.ratio),
+  stripFrequencyPerCm: limitedNumber(GRID_FIELD_LIMITS.stripFrequencyPerCm),
+  stripHeightUm: limitedNumber(GRID_FIELD_LIMITS.stripHeightUm),
+  interspaceWidthUm: limitedNumber(GRID_FIELD_LIMITS.interspaceWidthUm),
+  stripThicknessUm: limitedNumber(GRID_FIELD_LIMITS.stripThicknessUm),
+};
+
+/** Any subset of r, N, h, D, t to derive from, without saving. */
+export const deriveGridSchema = z.object(gridConstructionShape);
+export type DeriveGridInput = z.infer<typeof deriveGridSchema>;
+
+/**
+ * A grid as entered. Construction values given here are the entered ones;
+ * the server derives the rest and rejects inconsistent sets (see
+ * {@link gridRuleProblems}).
+ */
+export const createGridSchema = z.object({
+  label: requiredText('grid label', 120),
+  roomId: id('room').nullish(),
+  ...gridConstructionShape,
+  stripMaterial: material('strip'),
+  interspaceMaterial: material('interspace'),
+  coverMaterial: material('cover'),
+  focusDistanceCm: limitedNumber(GRID_FIELD_LIMITS.focusDistanceCm),
+  focusRangeMinCm: limitedNumber(GRID_FIELD_LIMITS.focusRangeMinCm),
+  focusRangeMaxCm: limitedNumber(GRID_FIELD_LIMITS.focusRangeMaxCm),
+  serial: optionalText('serial number', 80),
+  statedTp: fraction('Primary transmission Tp'),
+  statedTs: fraction('Scatter transmission Ts'),
+  statedContrastImprovementFactor: factor(
+    'Contrast improvement factor K',
+    0.5,
+    20,
+  ),
+  statedBuckyFactor: factor('Bucky factor B', 1, 30),
+  statedSelectivity: factor('Selectivity Σ', 0.5, 100),
+  statedFiguresNote: optionalText('note on the stated figures', 300),
+  notes: optionalText('notes', 2000),
+});
+export type CreateGridInput = z.infer<typeof createGridSchema>;
+export const updateGridSchema = createGridSchema
+  .partial()
+  .refine(nothingToChange, 'Nothing to change.');
+export type UpdateGridInput = z.infer<typeof updateGridSchema>;
+
+const calibrationPointSchema = z.object({
+  airKermaUgy: z
+    .number({ error: 'Air kerma must be a number.' })
+    .gt(0, 'Air kerma at the detector must be above 0 µGy.')
+    .max(
+      10_000,
+      'Air kerma at the detector must be at most 10 000 µGy (plausibility bound).',
+    ),
+  meanPixelValue: z.number({ error: 'Mean pixel value must be a number.' }),
+});
+
+const calibrationPointsSchema = z
+  .array(calibrationPointSchema, { error: 'Enter the flat-field points.' })
+  .min(3, 'Enter at least 3 flat-field points.')
+  .max(40, 'Enter at most 40 flat-field points.');
+
+/** Points and an optional model, to preview the fits without saving. */
+export const fitCalibrationSchema = z.object({
+  points: calibrationPointsSchema,
+  model: z
+    .enum(CALIBRATION_MODELS, { error: 'Choose linear, logarithmic or power.' })
+    .optional(),
+});
+export type FitCalibrationInput = z.infer<typeof fitCalibrationSchema>;
+
+export const createCalibrationSchema = fitCalibrationSchema.extend({
+  calibratedOn: z.iso.date('Enter the calibration date as YYYY-MM-DD.'),
+  beamQualityNote: requiredText('beam quality note', 300),
+  notes: optionalText('notes', 2000),
+});
+export type CreateCalibrationInput = z.infer<typeof createCalibrationSchema>;
+
+/** The result of {@link checkGridConstruction}. */
+export interface GridConstructionCheck {
+  /** Given and derived values. */
+  values: GridConstructionInput;
+  /** Quantities worked out from the given ones. */
+  derivedFields: GridQuantity[];
+  /** Quantities the given ones do not determine. */
+  missing: GridQuantity[];
+  /** Inconsistencies and derived values out of range, per field. */
+  problems: ErrorDetail[];
+}
+
+function definedConstruction(
+  input: Partial<Record<GridQuantity, number | null>>,
+): GridConstructionInput {
+  const known: GridConstructionInput = {};
+  for (const key of GRID_QUANTITIES) {
+    const value = input[key];
+    if (typeof value === 'number') known[key] = value;
+  }
+  return known;
+}
+
+function derivesCleanly(input: GridConstructionInput): boolean {
+  try {
+    deriveGridConstruction(input);
+    return true;
+  } catch (error) {
+    if (error instanceof DomainError) return false;
+    throw error;
+  }
+}
+
+/**
+ * Derives what the given construction values determine (r = h/D,
+ * N = 10 000/(D + t), lengths in µm) and says, per field, what is wrong: a
+ * disagreement between given values is put on each value whose removal
+ * would resolve it, and a derived value outside {@link GRID_FIELD_LIMITS} on
+ * that value.
+ * @param input any subset of r, N (lines/cm), h, D, t (µm); null = unknown.
+ * @returns values, derived and missing names, and field problems (empty
+ *   when the set is consistent).
+ * @see IAEA Diagnostic Radiology Physics (2014) §6.3.4; PHYSICS.md §1.
+ */
+export function checkGridConstruction(
+  input: Partial<Record<GridQuantity, number | null>>,
+): GridConstructionCheck {
+  const known = definedConstruction(input);
+  const givenKeys = Object.keys(known) as GridQuantity[];
+  try {
+    const derivation = deriveGridConstruction(known);
+    const derivedFields = GRID_QUANTITIES.filter(
+      (key) => derivation.values[key] !== undefined && !givenKeys.includes(key),
+    );
+    const problems = derivedFields.flatMap((key) => {
+      const value = derivation.values[key]!;
+      const limit = GRID_FIELD_LIMITS[key];
+      return value < limit.min || value > limit.max
+        ? [
+            {
+              path: key,
+              message: `Derived ${limit.label.toLowerCase()} ${Number(value.toPrecision(4))}: ${limitMessage(limit)}`,
+            },
+          ]
+        : [];
+    });
+    return {
+      values: derivation.values,
+      derivedFields,
+      missing: derivation.missing,
+      problems,
+    };
+  } catch (error) {
+    if (!(error instanceof DomainError)) throw error;
+    const { message } = error;
+    const culprits = givenKeys.filter((key) => {
+      const rest = { ...known };
+      delete rest[key];
+      return derivesCleanly(rest);
+    });
+    return {
+      values: known,
+      derivedFields: [],
+      missing: GRID_QUANTITIES.filter((key) => known[key] === undefined),
+      problems: (culprits.length > 0 ? culprits : givenKeys).map((path) => ({
+        path,
+        message,
+      })),
+    };
+  }
+}
+
+/** The grid fields the cross-field rules look at. */
+export type GridRuleInput = Partial<
+  Record<
+    GridQuantity | 'focusDistanceCm' | 'focusRangeMinCm' | 'focusRangeMaxCm',
+    number | null
+  >
+>;
+
+/**
+ * Every cross-field rule of a grid: the construction must be consistent and
+ * give the ratio, and a focusing range must enclose its focusing distance.
+ * @returns the construction check and the field problems (empty = valid).
+ */
+export function gridRuleProblems(grid: GridRuleInput): {
+  check: GridConstructionCheck;
+  problems: ErrorDetail[];
+} {
+  const check = checkGridConstruction(grid);
+  const problems = [...check.problems];
+  if (
+    check.values.ratio === undefined &&
+    !problems.some((p) => p.path === 'ratio')
+  ) {
+    problems.push({
+      path: 'ratio',
+      message:
+        'Enter the grid ratio, or the strip height and interspace width it follows from.',
+    });
+  }
+  const {
+    focusDistanceCm: f0,
+    focusRangeMinCm: near,
+    focusRangeMaxCm: far,
+  } = grid;
+  if (
+    (typeof near === 'number' || typeof far === 'number') &&
+    typeof f0 !== 'number'
+  ) {
+    problems.push({
+      path: 'focusDistanceCm',
+      message: 'Enter the focusing distance this focusing range belongs to.',
+    });
+  }
+  if (typeof near === 'number' && typeof f0 === 'number' && near >= f0) {
+    problems.push({
+      path: 'focusRangeMinCm',
+      message:
+        'The near end of the focusing range must be shorter than the focusing distance.',
+    });
+  }
+  if (typeof far === 'number' && typeof f0 === 'number' && far <= f0) {
+    problems.push({
+      path: 'focusRangeMaxCm',
+      message:
+        'The far end of the focusing range must be longer than the focusing distance.',
+    });
+  }
+  return { check, problems };
+}
+
+/** Relative disagreement tolerated between stated figures (makers round). */
+const STATED_TOLERANCE = 0.05;
+
+/** The stated IEC 60627 figures of a grid, as entered. */
+export interface StatedGridFigures {
+  statedTp: number | null;
+  statedTs: number | null;
+  statedContrastImprovementFactor: number | null;
+  statedBuckyFactor: number | null;
+  statedSelectivity: number | null;
+}
+
+const disagrees = (a: number, b: number): boolean =>
+  Math.abs(a - b) / Math.max(a, b) > STATED_TOLERANCE;
+
+/**
+ * Warnings for a grid's stated figures that contradict the identities
+ * Σ = Tp/Ts and K = Tp·B (from K = Tp/Tt and B = 1/Tt) by more than 5 %.
+ * @see IEC 60627:2013 definitions as summarised in PHYSICS.md §2.
+ */
+export function gridWarnings(grid: StatedGridFigures): Warning[] {
+  const warnings: Warning[] = [];
+  const { statedTp: tp, statedTs: ts, statedSelectivity: sigma } = grid;
+  const { statedContrastImprovementFactor: k, statedBuckyFactor: b } = grid;
+  if (
+    tp !== null &&
+    ts !== null &&
+    sigma !== null &&
+    disagrees(sigma, tp / ts)
+  ) {
+    warnings.push({
+      code: 'stated_figures_inconsistent',
+      message: `The stated selectivity ${sigma} differs from Tp/Ts = ${(tp / ts).toFixed(2)}; check the data sheet.`,
+    });
+  }
+  if (tp !== null && k !== null && b !== null && disagrees(k, tp * b)) {
+    warnings.push({
+      code: 'stated_figures_inconsistent',
+      message: `The stated contrast improvement factor ${k} differs from Tp·B = ${(tp * b).toFixed(2)}; check the data sheet.`,
+    });
+  }
+  return warnings;
+}
+
+/** Flags the client uses to show or hide controls. */
+export interface EquipmentPermissions {
+  edit: boolean;
+  delete: boolean;
+}
+
+export interface XrayUnitDto {
+  id: number;
+  roomId: number;
+  name: string;
+  model: string | null;
+  serial: string | null;
+  permissions: EquipmentPermissions;
+}
+
+export interface DetectorDto {
+  id: number;
+  roomId: number;
+  name: string;
+  model: string | null;
+  detectorType: DetectorType;
+  pixelPitchUm: number;
+  serial: string | null;
+  calibrationCount: number;
+  permissions: EquipmentPermissions;
+}
+
+export interface GridDto extends StatedGridFigures {
+  id: number;
+  label: string;
+  roomId: number | null;
+  ratio: number | null;
+  stripFrequencyPerCm: number | null;
+  stripHeightUm: number | null;
+  interspaceWidthUm: number | null;
+  stripThicknessUm: number | null;
+  /** Construction values worked out by Lamella rather than entered. */
+  derivedFields: GridQuantity[];
+  stripMaterial: MaterialId | null;
+  interspaceMaterial: MaterialId | null;
+  coverMaterial: MaterialId | null;
+  focusDistanceCm: number | null;
+  focusRangeMinCm: number | null;
+  focusRangeMaxCm: number | null;
+  serial: string | null;
+  statedFiguresNote: string | null;
+  notes: string | null;
+  warnings: Warning[];
+  updatedAt: string;
+  permissions: EquipmentPermissions;
+}
+
+export interface RoomDto {
+  id: number;
+  name: string;
+  site: string;
+  modalityNotes: string | null;
+  permissions: EquipmentPermissions;
+}
+
+/** A room with what is kept in it (overview and room page). */
+export interface RoomDetailDto extends RoomDto {
+  units: XrayUnitDto[];
+  detectors: DetectorDto[];
+  grids: GridDto[];
+}
+
+export interface DetectorCalibrationDto {
+  id: number;
+  detectorId: number;
+  calibratedOn: string;
+  beamQualityNote: string;
+  points: CalibrationPoint[];
+  model: CalibrationModel;
+  modelChoice: CalibrationResult['choice'];
+  parameters: { a: number; b: number };
+  rSquared: number;
+  residuals: number[];
+  residualSd: number;
+  fits: CalibrationFit[];
+  notes: string | null;
+  createdAt: string;
+  /** Records are kept as made (edit is always false); delete when allowed. */
+  permissions: EquipmentPermissions;
+}
+
+/** A detector with its room and calibration records, newest first. */
+export interface DetectorDetailDto extends DetectorDto {
+  roomName: string;
+  calibrations: DetectorCalibrationDto[];
+}
+
+/** What /grids/derive answers. */
+export type GridDerivationDto = GridConstructionCheck;
+
+/** Fits for a calibration form, or the field problems that prevent them. */
+export type CalibrationFitCheck =
+  | { result: CalibrationResult; problems: [] }
+  | { result: null; problems: ErrorDetail[] };
+
+const isFiniteFit = (fit: CalibrationFit): boolean =>
+  [fit.a, fit.b, fit.rSquared, fit.residualSd, ...fit.residuals].every(
+    Number.isFinite,
+  );
+
+/**
+ * Fits the three conversion functions and keeps only fits with finite
+ * parameters, R² and residuals (identical pixel values give R² = 0/0), so no
+ * NaN reaches a form or the database. A problem is put on `model` when the
+ * requested model alone is impossible, else on `points`.
+ * @param points flat-field points (air kerma µGy, mean pixel value).
+ * @param model the model to choose; omitted → best R².
+ * @see fitDetectorCalibration (IEC 62220-1-1:2015 conversion function).
+ */
+export function checkCalibrationFit(
+  points: readonly CalibrationPoint[],
+  model?: CalibrationModel,
+): CalibrationFitCheck {
+  const attempt = (requested?: CalibrationModel) => {
+    try {
+      const result = fitDetectorCalibration(points, requested);
+      const fits = result.fits.filter(isFiniteFit);
+      if (!isFiniteFit(result.chosen)) {
+        return new DomainError(
+          'validation_failed',
+          'The pixel values do not vary with air kerma, so no conversion function can be fitted.',
+        );
+      }
+      return { ...result, fits };
+    } catch (error) {
+      if (error instanceof DomainError) return error;
+      throw error;
+    }
+  };
+  const outcome = attempt(model);
+  if (!(outcome instanceof DomainError))
+    return { result: outcome, problems: [] };
+  const path =
+    model && !(attempt() instanceof DomainError) ? 'model' : 'points';
+  return { result: null, problems: [{ path, message: outcome.message }] };
+}
