@@ -49,6 +49,9 @@ export interface RawFrame {
   reversible?: boolean;
 }
 
+/** Largest decoded frame accepted, in bytes: far above any radiograph. */
+const MAX_FRAME_BYTES = 512 * 2 ** 20;
+
 function malformed(message: string): never {
   throw new DicomError('malformed_dicom', message);
 }
@@ -133,6 +136,12 @@ export function readPixelLayout(ds: DataSet): PixelLayout {
   }
   if (planarConfiguration !== 0 && planarConfiguration !== 1) {
     malformed(`Planar Configuration ${planarConfiguration} is not 0 or 1.`);
+  }
+  if (rows * columns * Math.max(1, bitsAllocated / 8) > MAX_FRAME_BYTES) {
+    throw new DicomError(
+      'unsupported_dicom',
+      `A ${columns} × ${rows} frame of ${bitsAllocated}-bit pixels is larger than Lamella decodes (${MAX_FRAME_BYTES / 2 ** 20} MiB per frame).`,
+    );
   }
   if (
     samplesPerPixel !== 1 ||

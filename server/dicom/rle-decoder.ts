@@ -39,14 +39,23 @@ export function decodeRleFrame(
     offsets.push(view.getUint32(4 + 4 * s, true));
   }
   offsets.push(frame.length);
-  const stride = samplesPerPixel * bytesPerSample;
-  const out = new Uint8Array(pixelCount * stride);
   for (let s = 0; s < segmentCount; s += 1) {
     const start = offsets[s]!;
     const end = offsets[s + 1]!;
     if (start < 64 || end > frame.length || end < start) {
       bad(`segment ${s + 1} lies outside the frame`);
     }
+    // Two PackBits bytes expand to at most 128: refuse segments that could
+    // not hold the frame before allocating anything.
+    if ((end - start) * 64 < pixelCount) {
+      bad(`segment ${s + 1} is too short for ${pixelCount} bytes`);
+    }
+  }
+  const stride = samplesPerPixel * bytesPerSample;
+  const out = new Uint8Array(pixelCount * stride);
+  for (let s = 0; s < segmentCount; s += 1) {
+    const start = offsets[s]!;
+    const end = offsets[s + 1]!;
     const sample = Math.floor(s / bytesPerSample);
     // Segment order is most significant byte first; output is little endian.
     const byteInSample = bytesPerSample - 1 - (s % bytesPerSample);
