@@ -4,6 +4,7 @@ import { AppError } from '../errors.ts';
 import { authenticate } from '../middleware/authenticate.ts';
 import { authRouter } from './auth.routes.ts';
 import { equipmentRouter } from './equipment.routes.ts';
+import { imagesRouter } from './images.routes.ts';
 import { mailRouter } from './mail.routes.ts';
 import { usersRouter } from './users.routes.ts';
 
@@ -17,6 +18,7 @@ export function apiRouter(deps: AppDeps): Router {
   router.use('/users', authenticate, usersRouter(deps.config, deps.mailer));
   router.use('/mail', authenticate, mailRouter());
   router.use('/equipment', authenticate, equipmentRouter());
+  router.use('/images', authenticate, imagesRouter(deps.config));
   router.use((req) => {
     throw new AppError(
       404,
