@@ -6,7 +6,8 @@ import { createSeededRandom } from './seeded-random.ts';
  * and the demo: a uniform slab (primary P and scatter S = SPR·P at the
  * detector), a thin contrast disc that removes a known fraction of the
  * primary only, optional lead discs whose shadows hold scatter only, an
- * optional heel-effect ramp, quantum noise and a detector response.
+ * optional heel-effect ramp and grid-line pattern, quantum noise and a
+ * detector response.
  */
 
 /** Detector response: stored pixel value PV as a function of air kerma K (µGy). */
@@ -52,6 +53,11 @@ export interface PhantomSpec {
   } | null;
   /** Fractional change of P and S per pixel along x, about the image centre. */
   heelGradientPerPx?: number;
+  /**
+   * Fixed grid-line pattern: the signal is multiplied by
+   * 1 + amplitude·sin(2π·x/periodPx), the same in every replicate.
+   */
+  gridLinePattern?: { periodPx: number; amplitude: number };
   leadDiscs?: LeadDisc[];
   /** Fraction of the local scatter lost per mm of lead-disc diameter. */
   scatterLossPerMm?: number;
@@ -142,7 +148,8 @@ function checkSpec(spec: PhantomSpec): void {
 
 /**
  * Renders the image row by row: for each pixel the primary and scatter air
- * kerma (with heel ramp, contrast disc and lead-disc shadows), Gaussian
+ * kerma (with heel ramp, grid-line pattern, contrast disc and lead-disc
+ * shadows), Gaussian
  * quantum noise of variance K·kermaPerQuantum, then the detector response,
  * rounded and clipped to Bits Stored.
  * @returns row-major stored values, columns × rows.
@@ -169,11 +176,21 @@ export function renderPhantomImage(spec: PhantomSpec): Uint16Array {
   const floorUgy = truth.totalUgy * 1e-6;
   const pixels = new Uint16Array(columns * rows);
   const centreX = columns / 2;
+  const pattern = new Float64Array(columns);
+  for (let x = 0; x < columns; x += 1) {
+    const lines = spec.gridLinePattern;
+    pattern[x] =
+      (1 + gradient * (x + 0.5 - centreX)) *
+      (lines
+        ? 1 +
+          lines.amplitude * Math.sin((2 * Math.PI * (x + 0.5)) / lines.periodPx)
+        : 1);
+  }
   for (let y = 0; y < rows; y += 1) {
     const yc = y + 0.5;
     for (let x = 0; x < columns; x += 1) {
       const xc = x + 0.5;
-      const heel = 1 + gradient * (xc - centreX);
+      const heel = pattern[x]!;
       let primary = truth.primaryUgy * heel;
       let scatter = truth.scatterUgy * heel;
       if (object) {

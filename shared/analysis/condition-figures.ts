@@ -248,7 +248,9 @@ function basisOf(estimates: Array<Estimate | null>): UncertaintyBasis {
  * CIF = C_g/C_ng; Tt = (S_bg,g/mAs_g)/(S_bg,ng/mAs_ng); Tp the same for ΔS;
  * B = 1/Tt; SIF = (CNR_g/√D_g)/(CNR_ng/√D_ng); dose saving 1 − 1/SIF²;
  * Q = Tp²/Tt; with Ts (beam stop on both sides, or stated) Σ = Tp/Ts and the
- * predicted K = (1+SPR)·Tp/(Tp + SPR·Ts) beside the measured CIF.
+ * predicted K = (1+SPR)·Tp/(Tp + SPR·Ts) beside the measured CIF (with beam
+ * stops on both sides this equals (1 − SF_g)/(1 − SF_ng), which is how it
+ * is propagated).
  *
  * Each side's figure is the mean over its replicate images with a Student t
  * interval (one image: the delta-method interval); ratios are propagated
@@ -359,16 +361,24 @@ export function conditionFigures(
     ts && tp ? ratio(tp, ts) : null,
   );
   const spr = noGrid.scatterToPrimaryRatio;
+  // With beam stops on both sides K = (1+SPR)·Tp/(Tp + SPR·Ts) reduces to
+  // (1 − SF_g)/(1 − SF_ng); propagating that keeps SPR, Tp and Ts (which
+  // share the no-grid scatter) from being treated as independent.
   const predictedK = attempt(
     'The predicted contrast improvement factor',
     warnings,
     () =>
-      spr && tpForPrediction && ts
+      tpSource === 'beam-stop' && grid.scatterFraction && noGrid.scatterFraction
         ? propagateEstimates(
-            (r, p, s) => ((1 + r) * p) / (p + r * s),
-            [spr, tpForPrediction, ts],
+            (sfGrid, sfNoGrid) => (1 - sfGrid) / (1 - sfNoGrid),
+            [grid.scatterFraction, noGrid.scatterFraction],
           )
-        : null,
+        : spr && tpForPrediction && ts
+          ? propagateEstimates(
+              (r, p, s) => ((1 + r) * p) / (p + r * s),
+              [spr, tpForPrediction, ts],
+            )
+          : null,
   );
 
   let welch: WelchTestResult | null = null;
