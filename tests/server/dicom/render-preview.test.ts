@@ -93,6 +93,58 @@ describe('renderPreview', () => {
     expect([b.at(0, 0), b.at(255, 0)]).toEqual([255, 0]);
   });
 
+  it.each([2, 3, 4])(
+    'box-averages by %i, edge blocks included, then applies the window',
+    async (factor) => {
+      const columns = 100 * factor + 1;
+      const rows = 50 * factor - 1;
+      const pixels = Uint16Array.from(
+        { length: columns * rows },
+        (_, i) => (i * 7919) % 4096,
+      );
+      const image = await decodeDicom(
+        writeDicom({ rows, columns, pixels, attributes: {} }),
+      );
+      const window = { center: 2048, width: 4096 };
+
+      const grey = await greyOf(
+        await renderPreview(image, { maxSizePx: 101, window }),
+      );
+
+      // Straight from the definitions: block mean, rounded, then PS3.3's linear VOI.
+      const width = Math.ceil(columns / factor);
+      const height = Math.ceil(rows / factor);
+      expect([grey.info.width, grey.info.height]).toEqual([width, height]);
+      const low = window.center - 0.5 - (window.width - 1) / 2;
+      for (let oy = 0; oy < height; oy += 1) {
+        for (let ox = 0; ox < width; ox += 1) {
+          let sum = 0;
+          let n = 0;
+          for (
+            let y = oy * factor;
+            y < Math.min(rows, (oy + 1) * factor);
+            y += 1
+          ) {
+            for (
+              let x = ox * factor;
+              x < Math.min(columns, (ox + 1) * factor);
+              x += 1
+            ) {
+              sum += pixels[y * columns + x]!;
+              n += 1;
+            }
+          }
+          const mean = Math.round(sum / n);
+          const expected = Math.min(
+            255,
+            Math.max(0, Math.round(((mean - low) * 255) / (window.width - 1))),
+          );
+          expect(grey.at(ox, oy)).toBe(expected);
+        }
+      }
+    },
+  );
+
   it('rejects a size below one pixel', async () => {
     await expect(
       renderPreview(await halves(), { maxSizePx: 0 }),
