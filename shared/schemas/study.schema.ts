@@ -127,17 +127,23 @@ const gridIdsSchema = z
   .max(4, 'Test at most 4 grids in one study.')
   .refine(distinct, 'Each grid once.');
 
-export const createStudySchema = z.object({
+const studyFields = {
   title: z.string().trim().min(1, 'Give the study a title.').max(120),
   purpose: z.string().trim().min(1, 'Say what the study is for.').max(2000),
   roomId: idSchema,
-  detectorId: idSchema.nullable().default(null),
   gridIds: gridIdsSchema,
   plan: studyPlanSchema,
+};
+
+export const createStudySchema = z.object({
+  ...studyFields,
+  detectorId: idSchema.nullable().default(null),
 });
 export type CreateStudyInput = z.infer<typeof createStudySchema>;
 
-export const updateStudySchema = createStudySchema
+/** Only the fields sent change; `detectorId: null` removes the detector. */
+export const updateStudySchema = z
+  .object({ ...studyFields, detectorId: idSchema.nullable() })
   .partial()
   .refine((v) => Object.keys(v).length > 0, 'Nothing to change.');
 export type UpdateStudyInput = z.infer<typeof updateStudySchema>;
