@@ -4,6 +4,7 @@ import { AppError } from '../errors.ts';
 import { authenticate } from '../middleware/authenticate.ts';
 import { authRouter } from './auth.routes.ts';
 import { equipmentRouter } from './equipment.routes.ts';
+import { geometryRouter } from './geometry.routes.ts';
 import { imagesRouter } from './images.routes.ts';
 import { mailRouter } from './mail.routes.ts';
 import { studiesRouter } from './studies.routes.ts';
@@ -20,6 +21,7 @@ export function apiRouter(deps: AppDeps): Router {
   router.use('/mail', authenticate, mailRouter());
   router.use('/studies', authenticate, studiesRouter(deps));
   router.use('/equipment', authenticate, equipmentRouter());
+  router.use('/geometry', authenticate, geometryRouter());
   router.use('/images', authenticate, imagesRouter(deps.config));
   router.use((req) => {
     throw new AppError(
