@@ -10,7 +10,7 @@ import { pathToFileURL } from 'node:url';
 import { parseArgs } from 'node:util';
 
 interface BenchSection {
-  run: () => Promise<Record<string, number>>;
+  run: () => Promise<Record<string, number | string>>;
 }
 
 const { values, positionals } = parseArgs({
@@ -30,7 +30,7 @@ if (sections.length === 0) {
   process.exit(2);
 }
 
-const merged: Record<string, number> = {};
+const merged: Record<string, number | string> = {};
 for (const name of sections) {
   process.stderr.write(`bench: ${name} …\n`);
   const section = (await import(
@@ -48,7 +48,7 @@ for (const name of sections) {
     process.stdout.write(`\n${name}\n`);
     for (const [key, value] of Object.entries(record)) {
       process.stdout.write(
-        `  ${key.padEnd(width)}  ${Number(value.toPrecision(4))}\n`,
+        `  ${key.padEnd(width)}  ${typeof value === 'number' ? Number(value.toPrecision(4)) : value}\n`,
       );
     }
   }

@@ -144,12 +144,46 @@ function accumulate(
           rzz += z * z;
         }
       } else {
-        for (let x = x0; x < x1; x += 1) {
+        // Four interleaved accumulator sets: the sums of one set depend on
+        // each other, so a single set would wait on every addition.
+        let z1s = 0;
+        let z2s = 0;
+        let z3s = 0;
+        let xz1 = 0;
+        let xz2 = 0;
+        let xz3 = 0;
+        let zz1 = 0;
+        let zz2 = 0;
+        let zz3 = 0;
+        let x = x0;
+        for (; x + 3 < x1; x += 4) {
+          const i = base + x;
+          const z0 = pixels[i]! - shift;
+          const z1 = pixels[i + 1]! - shift;
+          const z2 = pixels[i + 2]! - shift;
+          const z3 = pixels[i + 3]! - shift;
+          rz += z0;
+          z1s += z1;
+          z2s += z2;
+          z3s += z3;
+          rxz += x * z0;
+          xz1 += (x + 1) * z1;
+          xz2 += (x + 2) * z2;
+          xz3 += (x + 3) * z3;
+          rzz += z0 * z0;
+          zz1 += z1 * z1;
+          zz2 += z2 * z2;
+          zz3 += z3 * z3;
+        }
+        for (; x < x1; x += 1) {
           const z = pixels[base + x]! - shift;
           rz += z;
           rxz += x * z;
           rzz += z * z;
         }
+        rz += z1s + z2s + z3s;
+        rxz += xz1 + xz2 + xz3;
+        rzz += zz1 + zz2 + zz3;
       }
       const len = x1 - x0;
       // Σx and Σx² of the integers x0..x1−1, in closed form.

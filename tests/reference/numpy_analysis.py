@@ -7,7 +7,9 @@ Input (stdin, JSON):
    "planes": [{"image": I, "regions": [REGION...]}],
    "differences": [{"first": I, "second": J, "region": REGION}],
    "welch": [{"a": [..], "b": [..]}],
-   "lines": [{"x": [..], "y": [..]}]}
+   "lines": [{"x": [..], "y": [..]}],
+   "histograms": [{"image": I, "region": REGION, "bins": B, "rangeMin": LO,
+                   "rangeMax": HI}]}
 REGION is a Lamella region object (rect, circle or ring) in pixels; pixel
 (x, y) has centre (x + 0.5, y + 0.5): rect x0 <= x < x0 + w, y0 <= y < y0 + h;
 circle d^2 <= r^2; ring rInner^2 < d^2 <= rOuter^2. Raw files are
@@ -20,6 +22,7 @@ Output (stdout, JSON):
   differences: n, meanDifference, differenceSd (ddof = 1), noiseSd (/ sqrt 2).
   welch: t and the Welch-Satterthwaite degrees of freedom.
   lines: numpy.polyfit(x, y, 1) as intercept and slope.
+  histograms: numpy.histogram of the region's values, B bins over [LO, HI).
 
 Run: /usr/bin/python3 tests/reference/numpy_analysis.py < cases.json
 """
@@ -89,6 +92,12 @@ def welch(a, b):
     return {"t": float(t), "degreesOfFreedom": float(df)}
 
 
+def histogram(image, region, bins, low, high):
+    rows, columns = image.shape
+    counts, _ = np.histogram(image[mask_for(region, columns, rows)], bins=bins, range=(low, high))
+    return counts.tolist()
+
+
 def main():
     cases = json.load(sys.stdin)
     images = [load(spec) for spec in cases.get("images", [])]
@@ -97,6 +106,8 @@ def main():
         "differences": [difference(images[c["first"]], images[c["second"]], c["region"])
                         for c in cases.get("differences", [])],
         "welch": [welch(c["a"], c["b"]) for c in cases.get("welch", [])],
+        "histograms": [histogram(images[c["image"]], c["region"], c["bins"], c["rangeMin"], c["rangeMax"])
+                       for c in cases.get("histograms", [])],
         "lines": [dict(zip(["slope", "intercept"], map(float, np.polyfit(c["x"], c["y"], 1))))
                   for c in cases.get("lines", [])],
     }
