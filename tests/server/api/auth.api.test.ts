@@ -52,12 +52,10 @@ describe('sign-in', () => {
     const wrong = await browserAgent(t.app)
       .post('/api/auth/sign-in')
       .send({ email: user.email, password: 'not it at all' });
-    const unknown = await browserAgent(t.app)
-      .post('/api/auth/sign-in')
-      .send({
-        email: 'nobody.here@saltmarsh-general.example',
-        password: 'not it at all',
-      });
+    const unknown = await browserAgent(t.app).post('/api/auth/sign-in').send({
+      email: 'nobody.here@saltmarsh-general.example',
+      password: 'not it at all',
+    });
     expect(wrong.status).toBe(401);
     expect(unknown.status).toBe(401);
     expect(wrong.body).toEqual(unknown.body);
@@ -131,12 +129,10 @@ describe('own password', () => {
         message: 'The current password is not right.',
       },
     ]);
-    const ok = await agent
-      .post('/api/auth/password')
-      .send({
-        currentPassword: TEST_PASSWORD,
-        newPassword: 'a brand new secret',
-      });
+    const ok = await agent.post('/api/auth/password').send({
+      currentPassword: TEST_PASSWORD,
+      newPassword: 'a brand new secret',
+    });
     expect(ok.status).toBe(204);
     const again = await browserAgent(t.app)
       .post('/api/auth/sign-in')

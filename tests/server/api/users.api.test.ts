@@ -147,13 +147,11 @@ describe('bad input', () => {
   it('answers 400 naming each bad field, and writes nothing', async () => {
     const { agent } = await signedInAgent(t.app, 'admin');
     const before = await User.count();
-    const res = await agent
-      .post('/api/users')
-      .send({
-        email: 'not-an-address',
-        displayName: 'x'.repeat(121),
-        role: 'janitor',
-      });
+    const res = await agent.post('/api/users').send({
+      email: 'not-an-address',
+      displayName: 'x'.repeat(121),
+      role: 'janitor',
+    });
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('validation_failed');
     const paths = res.body.error.details
@@ -198,13 +196,11 @@ describe('bad input', () => {
 
   it('answers 413 for a body over the limit', async () => {
     const { agent } = await signedInAgent(t.app, 'admin');
-    const res = await agent
-      .post('/api/users')
-      .send({
-        email: uniqueEmail('big'),
-        displayName: 'x'.repeat(2_000_000),
-        role: 'resident',
-      });
+    const res = await agent.post('/api/users').send({
+      email: uniqueEmail('big'),
+      displayName: 'x'.repeat(2_000_000),
+      role: 'resident',
+    });
     expect(res.status).toBe(413);
     expect(res.body.error.code).toBe('payload_too_large');
   });
