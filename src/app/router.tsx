@@ -34,6 +34,10 @@ const router = createBrowserRouter([
     children: [
       { index: true, element: page(() => import('./routes/home-page.tsx')) },
       {
+        path: 'geometry',
+        element: page(() => import('./routes/geometry-page.tsx')),
+      },
+      {
         path: 'account',
         element: page(() => import('./routes/account-page.tsx')),
       },

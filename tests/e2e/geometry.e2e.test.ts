@@ -1,0 +1,99 @@
+import { statSync } from 'node:fs';
+import type { Browser } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import {
+  launchBrowser,
+  newPage,
+  screenshot,
+  signIn,
+} from './helpers/browser.ts';
+import { startE2eServer, type E2eServer } from './helpers/e2e-server.ts';
+
+let server: E2eServer;
+let browser: Browser;
+beforeAll(async () => {
+  server = await startE2eServer();
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+});
+
+describe('the geometry page in the browser', () => {
+  it('plans r 10, f0 100 at 80 cm over 40 cm: edge loss 0.50 and the out-of-range warning', async () => {
+    const page = await newPage(browser);
+    await signIn(page, server.baseUrl, 'resident');
+    await page
+      .getByRole('navigation', { name: 'Main' })
+      .getByRole('link', { name: 'Geometry' })
+      .click();
+    await page.waitForURL(`${server.baseUrl}/geometry`);
+    const planner = page.getByRole('form', { name: 'Geometry planner' });
+    await planner.getByLabel('Grid ratio').fill('10');
+    await planner.getByLabel('Focusing distance f0 (cm)').fill('100');
+    await planner.getByLabel('SID (cm)').fill('80');
+    await planner.getByLabel('Field width (cm)').fill('40');
+    await planner.getByRole('button', { name: 'Plan' }).click();
+
+    // PHYSICS.md §5 check values (derived): r 10, f0 100, f1 80, c 20 → 0.50.
+    await expect(
+      page.getByTestId('edge-loss').textContent(),
+    ).resolves.toContain('0.50');
+    // PHYSICS.md §5 check values: limits at c = 20 cm, r 10 → 83.3–125.0 cm.
+    await expect(
+      page.getByTestId('focusing-range').textContent(),
+    ).resolves.toBe('83.3 cm – 125.0 cm');
+    await expect(page.getByTestId('within-range').textContent()).resolves.toBe(
+      'No',
+    );
+    const warning = page
+      .getByTestId('plan-warnings')
+      .locator('[data-code="outside_focusing_range"]');
+    await expect(warning.textContent()).resolves.toContain(
+      'outside the focusing range 83.3–125.0 cm',
+    );
+    await page
+      .getByTestId('loss-profile-chart')
+      .locator('path.recharts-line-curve')
+      .first()
+      .waitFor();
+    const file = await screenshot(page, 'geometry-planner');
+    expect(statSync(file).size).toBeGreaterThan(10_000);
+    await page.context().close();
+  });
+
+  it('shows a bad value next to its field', async () => {
+    const page = await newPage(browser);
+    await signIn(page, server.baseUrl, 'committee');
+    await page.goto(`${server.baseUrl}/geometry`);
+    const planner = page.getByRole('form', { name: 'Geometry planner' });
+    await planner.getByLabel('Grid ratio').fill('-3');
+    await planner.getByLabel('Focusing distance f0 (cm)').fill('100');
+    await planner.getByLabel('SID (cm)').fill('100');
+    await planner.getByLabel('Field width (cm)').fill('40');
+    await planner.getByRole('button', { name: 'Plan' }).click();
+    await planner.getByText('Grid ratio must be positive.').waitFor();
+    await page.context().close();
+  });
+
+  it('predicts Tp 0.7061 for N 40, t 36 µm, r 12, aluminium at 60 keV', async () => {
+    const page = await newPage(browser);
+    await signIn(page, server.baseUrl, 'physicist');
+    await page.goto(`${server.baseUrl}/geometry`);
+    const form = page.getByRole('form', { name: 'Predicted transmission' });
+    await form.getByLabel('Beam', { exact: true }).selectOption('energy');
+    await form.getByLabel('Energy (keV)').fill('60');
+    await form.getByRole('button', { name: 'Predict' }).click();
+    // PHYSICS.md §6 check values (derived, μ from xraylib): Tp 0.7061.
+    await expect(
+      page.getByTestId('predicted-primaryTransmission').textContent(),
+    ).resolves.toBe('0.7061');
+    await page
+      .getByTestId('predicted-figures')
+      .getByText('scatter-to-primary ratio of 4 without the grid (assumed')
+      .waitFor();
+    await screenshot(page, 'geometry-predicted-transmission');
+    await page.context().close();
+  });
+});
