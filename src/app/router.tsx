@@ -42,6 +42,10 @@ const router = createBrowserRouter([
         element: page(() => import('./routes/account-page.tsx')),
       },
       {
+        path: 'images/upload',
+        element: page(() => import('./routes/upload-images-page.tsx')),
+      },
+      {
         path: 'admin/users',
         element: page(() => import('./routes/admin-users-page.tsx')),
       },

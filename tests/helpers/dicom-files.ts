@@ -15,14 +15,17 @@ import { dcmtk, phantomPixels } from './dicom-phantom.ts';
 
 type Attributes = Record<string, string | number | number[] | string[]>;
 
-/** Acquisition attributes of a typical grid exposure on a DX detector (invented). */
+/**
+ * Acquisition attributes of a typical grid exposure on a DX detector
+ * (invented; a 0.25 mm pitch is 40 lines/cm, common practice).
+ */
 export const GRID_EXPOSURE_ATTRIBUTES: Attributes = {
   KVP: 81,
   ExposureInuAs: 10_000,
   DistanceSourceToDetector: 1800,
   ImagerPixelSpacing: [0.148, 0.148],
   Grid: ['FOCUSED', 'RECIPROCATING'],
-  GridPitch: 0.025,
+  GridPitch: 0.25,
   GridFocalDistance: 1800,
   StationName: 'SGH-DX2',
 };

@@ -187,17 +187,15 @@ describe('GET /api/images/:id', () => {
 describe('PATCH /api/images/:id/corrections', () => {
   it('keeps the file value beside the correction, applies it to the effective values and audits it', async () => {
     const { agent, user } = await signedInAgent(t.app, 'physicist');
-    const res = await agent
-      .patch(`/api/images/${free.id}/corrections`)
-      .send({
-        values: { kvp: 80, gridPitchMm: 0.0278 },
-        reason: 'Generator display read 80 kV; pitch from the grid label.',
-      });
+    const res = await agent.patch(`/api/images/${free.id}/corrections`).send({
+      values: { kvp: 80, gridPitchMm: 0.278 },
+      reason: 'Generator display read 80 kV; pitch from the grid label.',
+    });
     expect(res.status).toBe(200);
     expect(res.body.data.acquisition.kvp).toBe(81);
     expect(res.body.data.effectiveAcquisition).toMatchObject({
       kvp: 80,
-      gridPitchMm: 0.0278,
+      gridPitchMm: 0.278,
     });
     expect(res.body.data.corrections.kvp).toMatchObject({
       value: 80,

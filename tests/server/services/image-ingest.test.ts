@@ -75,7 +75,7 @@ describe('ingestUploads', () => {
       exposureMasSource: 'ExposureInuAs',
       sidMm: 1800,
       grid: ['FOCUSED', 'RECIPROCATING'],
-      gridPitchMm: 0.025,
+      gridPitchMm: 0.25,
       spacingRowMm: 0.148,
       spacingSource: 'ImagerPixelSpacing',
       rows: 48,
