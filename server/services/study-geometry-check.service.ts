@@ -55,7 +55,7 @@ export interface GeometryCheckImage {
 const cm = (value: number): string => Number(value.toFixed(1)).toString();
 
 function rangeText(range: FocusingRange): string {
-  return `${cm(range.nearCm)}–${range.farCm === null ? '∞' : cm(range.farCm)} cm`;
+  return `${range.nearCm.toFixed(1)}–${range.farCm === null ? '∞' : range.farCm.toFixed(1)} cm`;
 }
 
 function isOutside(range: FocusingRange, distanceCm: number): boolean {
@@ -96,7 +96,7 @@ function outsideWarning(
   if (!isOutside(range, distanceCm)) return null;
   return {
     code: 'sid_outside_focusing_range',
-    message: `${grid.name}: ${where} of ${cm(distanceCm)} cm is outside its focusing range ${rangeText(range)} for a ${cm(fieldWidthCm)} cm field (edge primary below ${Math.round(range.criterion * 100)} % of its centred value, ${range.criterionSource}). ${ASSUMPTIONS}`,
+    message: `${grid.name}: ${where} is ${cm(distanceCm)} cm, outside its focusing range ${rangeText(range)} for a ${cm(fieldWidthCm)} cm field (edge primary below ${Math.round(range.criterion * 100)} % of its centred value, ${range.criterionSource}). ${ASSUMPTIONS}`,
   };
 }
 

@@ -92,7 +92,7 @@ describe('the geometry check on a study', () => {
       'sid_outside_focusing_range',
     ]);
     expect(warnings[0]!.message).toContain(focused.label);
-    expect(warnings[0]!.message).toContain('83.3–125 cm');
+    expect(warnings[0]!.message).toContain('83.3–125.0 cm');
     expect(warnings[1]!.message).toContain('96.5–142.3 cm');
   });
 

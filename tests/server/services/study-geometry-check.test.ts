@@ -67,8 +67,8 @@ describe('studyGeometryWarnings from the plan', () => {
     expect(warnings).toHaveLength(1);
     expect(warnings[0]!.code).toBe('sid_outside_focusing_range');
     // PHYSICS.md §5 check values: limits at c = 20 cm, r 10 f0 100 → 83.3–125.0 cm.
-    expect(warnings[0]!.message).toContain('83.3–125 cm');
-    expect(warnings[0]!.message).toContain('planned SID of 80 cm');
+    expect(warnings[0]!.message).toContain('83.3–125.0 cm');
+    expect(warnings[0]!.message).toContain('the planned SID is 80 cm, outside');
     expect(warnings[0]!.message).toContain(
       'Grid G10 (10:1, focused at 100 cm)',
     );
@@ -103,10 +103,10 @@ describe('studyGeometryWarnings from the image headers', () => {
     );
     expect(warnings).toHaveLength(1);
     expect(warnings[0]!.message).toContain(
-      'the SID in the header of IMG-1.dcm of 150 cm',
+      'the SID in the header of IMG-1.dcm is 150 cm, outside',
     );
     // PHYSICS.md §5 check values: r 10 f0 100 c 20 → 83.3–125.0 cm.
-    expect(warnings[0]!.message).toContain('83.3–125 cm');
+    expect(warnings[0]!.message).toContain('83.3–125.0 cm');
   });
 
   it('skips no-grid images and images with nothing to check against', () => {
@@ -141,7 +141,7 @@ describe('studyGeometryWarnings from the image headers', () => {
     expect(warnings[0]!.message).toContain(
       'The grid named in the header (10:1, focused at 100 cm)',
     );
-    expect(warnings[0]!.message).toContain('83.3–125 cm');
+    expect(warnings[0]!.message).toContain('83.3–125.0 cm');
   });
 
   it('prefers the register grid to the header when the image is assigned', () => {
