@@ -15,6 +15,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/admin/users', label: 'Users', isShown: (s) => s.can.manageUsers },
   { to: '/admin/mail', label: 'Sent mail', isShown: (s) => s.can.readSentMail },
   { to: '/images/upload', label: 'Upload', isShown: (s) => s.can.editStudies },
+  { to: '/equipment', label: 'Equipment', isShown: always },
   { to: '/geometry', label: 'Geometry', isShown: always },
   { to: '/account', label: 'Account', isShown: always },
 ];

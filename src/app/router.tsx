@@ -53,6 +53,26 @@ const router = createBrowserRouter([
         path: 'admin/mail',
         element: page(() => import('./routes/sent-mail-page.tsx')),
       },
+      {
+        path: 'equipment',
+        element: page(() => import('./routes/equipment-overview-page.tsx')),
+      },
+      {
+        path: 'equipment/rooms/:id',
+        element: page(() => import('./routes/equipment-room-page.tsx')),
+      },
+      {
+        path: 'equipment/grids',
+        element: page(() => import('./routes/equipment-grids-page.tsx')),
+      },
+      {
+        path: 'equipment/grids/:id',
+        element: page(() => import('./routes/equipment-grid-page.tsx')),
+      },
+      {
+        path: 'equipment/detectors/:id',
+        element: page(() => import('./routes/equipment-detector-page.tsx')),
+      },
       { path: '*', element: page(() => import('./routes/not-found-page.tsx')) },
     ],
   },

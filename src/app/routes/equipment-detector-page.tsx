@@ -1,0 +1,160 @@
+import { useState } from 'react';
+import { Link, useNavigate, useParams } from 'react-router-dom';
+import { DETECTOR_TYPE_LABELS } from '../../../shared/schemas/equipment.schema.ts';
+import { Button } from '../../components/ui/button.tsx';
+import {
+  Empty,
+  ErrorNotice,
+  Loading,
+  PageTitle,
+} from '../../components/ui/page-state.tsx';
+import {
+  useDeleteDetector,
+  useDetector,
+} from '../../features/equipment/api/detectors.ts';
+import { CalibrationForm } from '../../features/equipment/components/calibration-form.tsx';
+import { CalibrationRecord } from '../../features/equipment/components/calibration-record.tsx';
+import { DetectorForm } from '../../features/equipment/components/detector-form.tsx';
+import { formatNumber } from '../../features/equipment/components/format.ts';
+
+export default function EquipmentDetectorPage() {
+  const id = Number(useParams().id);
+  const detector = useDetector(id);
+  const remove = useDeleteDetector();
+  const navigate = useNavigate();
+  const [isEditing, setIsEditing] = useState(false);
+  const [isRecording, setIsRecording] = useState(false);
+
+  if (detector.isPending) return <Loading what="the detector" />;
+  if (detector.isError)
+    return (
+      <ErrorNotice
+        error={detector.error}
+        onRetry={() => void detector.refetch()}
+      />
+    );
+  const data = detector.data;
+  const canEdit = data.permissions.edit;
+
+  return (
+    <div className="space-y-6">
+      <p className="text-sm">
+        <Link to="/equipment" className="text-lamina-700 underline">
+          Equipment
+        </Link>{' '}
+        /{' '}
+        <Link
+          to={`/equipment/rooms/${data.roomId}`}
+          className="text-lamina-700 underline"
+        >
+          {data.roomName}
+        </Link>{' '}
+        / {data.name}
+      </p>
+      <PageTitle
+        actions={
+          canEdit && (
+            <div className="flex gap-3">
+              {!isEditing && (
+                <Button variant="secondary" onClick={() => setIsEditing(true)}>
+                  Change detector
+                </Button>
+              )}
+              {data.permissions.delete && (
+                <Button
+                  variant="danger"
+                  disabled={remove.isPending}
+                  onClick={() => {
+                    if (window.confirm(`Delete ${data.name}?`)) {
+                      remove.mutate(data.id, {
+                        onSuccess: () =>
+                          void navigate(`/equipment/rooms/${data.roomId}`),
+                      });
+                    }
+                  }}
+                >
+                  Delete detector
+                </Button>
+              )}
+            </div>
+          )
+        }
+      >
+        {data.name}
+      </PageTitle>
+      {remove.isError && <ErrorNotice error={remove.error} />}
+      {isEditing ? (
+        <div className="rounded-xl bg-white p-5 shadow-sm">
+          <DetectorForm
+            roomId={data.roomId}
+            detector={data}
+            onDone={() => setIsEditing(false)}
+            onCancel={() => setIsEditing(false)}
+          />
+        </div>
+      ) : (
+        <dl className="grid gap-3 rounded-xl bg-white p-5 text-sm shadow-sm md:grid-cols-4">
+          <div>
+            <dt className="text-xs font-semibold uppercase text-slate-500">
+              Type
+            </dt>
+            <dd>{DETECTOR_TYPE_LABELS[data.detectorType]}</dd>
+          </div>
+          <div>
+            <dt className="text-xs font-semibold uppercase text-slate-500">
+              Model
+            </dt>
+            <dd>{data.model ?? '–'}</dd>
+          </div>
+          <div>
+            <dt className="text-xs font-semibold uppercase text-slate-500">
+              Pixel pitch
+            </dt>
+            <dd>{formatNumber(data.pixelPitchUm)} µm</dd>
+          </div>
+          <div>
+            <dt className="text-xs font-semibold uppercase text-slate-500">
+              Serial number
+            </dt>
+            <dd>{data.serial ?? '–'}</dd>
+          </div>
+        </dl>
+      )}
+
+      <section aria-labelledby="calibrations-heading" className="space-y-4">
+        <div className="flex flex-wrap items-center justify-between gap-3">
+          <h2
+            id="calibrations-heading"
+            className="text-lg font-semibold text-lamina-950"
+          >
+            Calibration records
+          </h2>
+          {canEdit && !isRecording && (
+            <Button onClick={() => setIsRecording(true)}>
+              Record a calibration
+            </Button>
+          )}
+        </div>
+        <p className="text-sm text-slate-600">
+          Flat-field exposures with the air kerma measured at the detector give
+          the conversion function that turns pixel values into a signal
+          proportional to air kerma (IEC 62220-1-1). Records are kept as made; a
+          new calibration is a new record.
+        </p>
+        {isRecording && (
+          <CalibrationForm
+            detectorId={data.id}
+            onDone={() => setIsRecording(false)}
+          />
+        )}
+        {data.calibrations.length === 0 ? (
+          <Empty>This detector has no calibration record yet.</Empty>
+        ) : (
+          data.calibrations.map((calibration) => (
+            <CalibrationRecord key={calibration.id} calibration={calibration} />
+          ))
+        )}
+      </section>
+    </div>
+  );
+}
