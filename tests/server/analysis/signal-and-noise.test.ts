@@ -278,3 +278,54 @@ describe('beam-stop series', () => {
     expect(f.predictedContrastImprovementFactor).toBeNull();
   });
 });
+
+describe('finite output', () => {
+  it('holds no NaN or Infinity anywhere in a full analysis', async () => {
+    const images = await Promise.all(
+      [1, 2, 3, 4].map((seed, i) =>
+        decodedPhantom(
+          slabSpec({
+            seed: 300 + seed,
+            grid: i < 2 ? TEST_GRID : null,
+            heelGradientPerPx: 0.001,
+          }),
+        ),
+      ),
+    );
+    const found: string[] = [];
+    const scan = (value: unknown, where: string): void => {
+      if (typeof value === 'number' && !Number.isFinite(value))
+        found.push(where);
+      else if (Array.isArray(value))
+        value.forEach((v, i) => scan(v, `${where}[${i}]`));
+      else if (
+        value &&
+        typeof value === 'object' &&
+        !ArrayBuffer.isView(value)
+      ) {
+        for (const [k, v] of Object.entries(value)) scan(v, `${where}.${k}`);
+      }
+    };
+
+    for (const options of [
+      {},
+      {
+        detrend: 'plane' as const,
+        noise: 'replicate-difference' as const,
+        cnrDefinition: 'pooled-sd' as const,
+      },
+    ]) {
+      scan(
+        analyseCondition({
+          gridImages: images.slice(0, 2),
+          noGridImages: images.slice(2),
+          layout: SLAB_LAYOUT,
+          options,
+        }),
+        'result',
+      );
+    }
+
+    expect(found).toEqual([]);
+  });
+});
