@@ -8,6 +8,11 @@ import {
   signIn,
 } from './helpers/browser.ts';
 import { startE2eServer, type E2eServer } from './helpers/e2e-server.ts';
+import {
+  buildGrid,
+  buildRoom,
+  SMALL_PLAN,
+} from '../helpers/study-factories.ts';
 
 let server: E2eServer;
 let browser: Browser;
@@ -94,6 +99,39 @@ describe('the geometry page in the browser', () => {
       .getByText('scatter-to-primary ratio of 4 without the grid (assumed')
       .waitFor();
     await screenshot(page, 'geometry-predicted-transmission');
+    await page.context().close();
+  });
+
+  it('shows the geometry warning on a study planned outside the focusing range', async () => {
+    const page = await newPage(browser);
+    await signIn(page, server.baseUrl, 'physicist');
+    const room = await buildRoom();
+    // The factory's grid: r 12 focused at 115 cm.
+    const grid = await buildGrid(12, room.id);
+    const created = await page.request.post(`${server.baseUrl}/api/studies`, {
+      headers: { Origin: server.baseUrl },
+      data: {
+        title: 'Bedside at 80 cm',
+        purpose: 'A 115 cm grid on a bedside unit.',
+        roomId: room.id,
+        detectorId: null,
+        gridIds: [grid.id],
+        plan: {
+          ...SMALL_PLAN,
+          geometry: { sidCm: 80, fieldWidthCm: 40, fieldHeightCm: 30 },
+        },
+      },
+    });
+    expect(created.status()).toBe(201);
+    const { data } = (await created.json()) as { data: { id: number } };
+    await page.goto(`${server.baseUrl}/studies/${data.id}`);
+    const warnings = page.getByTestId('study-geometry-warnings');
+    // PHYSICS.md §5 formula, r 12 f0 115 at c = 20 cm:
+    // 1/(1/115 ± 0.4/240) → 96.5–142.3 cm.
+    await expect(warnings.textContent()).resolves.toContain(
+      'the planned SID is 80 cm, outside its focusing range 96.5–142.3 cm',
+    );
+    await screenshot(page, 'study-geometry-warning');
     await page.context().close();
   });
 });

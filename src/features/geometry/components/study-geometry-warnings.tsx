@@ -13,9 +13,7 @@ export function StudyGeometryWarnings({
   if (warnings.length === 0) return null;
   return (
     <section aria-label="Grid geometry check" className="space-y-2">
-      <h2 className="text-lg font-semibold text-lamina-950">
-        Grid geometry check
-      </h2>
+      <h3 className="font-semibold text-lamina-950">Grid geometry check</h3>
       <WarningList warnings={warnings} testId="study-geometry-warnings" />
       <p className="text-xs text-slate-500">
         Try the set-up in the Geometry planner to see the loss across the field.
