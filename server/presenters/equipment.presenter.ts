@@ -1,6 +1,5 @@
 import type { Actor } from '../../shared/permissions.ts';
 import {
-  gridWarnings,
   type DetectorCalibrationDto,
   type DetectorDetailDto,
   type DetectorDto,
@@ -9,6 +8,7 @@ import {
   type RoomDto,
   type XrayUnitDto,
 } from '../../shared/schemas/equipment.schema.ts';
+import { gridWarnings } from '../../shared/schemas/equipment-rules.ts';
 import type { DetectorCalibration } from '../models/detector-calibration.model.ts';
 import type { Detector } from '../models/detector.model.ts';
 import type { Grid } from '../models/grid.model.ts';

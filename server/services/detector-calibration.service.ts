@@ -1,10 +1,11 @@
 import {
-  checkCalibrationFit,
   type CreateCalibrationInput,
   type FitCalibrationInput,
 } from '../../shared/schemas/equipment.schema.ts';
+import { checkCalibrationFit } from '../../shared/schemas/equipment-rules.ts';
 import type { CalibrationResult } from '../../shared/analysis/detector-calibration.ts';
 import { notFound, validationFailed } from '../errors.ts';
+import { enqueueDetectorRecompute } from '../jobs/recompute-study.job.ts';
 import { DetectorCalibration } from '../models/detector-calibration.model.ts';
 import type { Detector } from '../models/detector.model.ts';
 import type { AuditContext } from './audit.service.ts';
@@ -78,6 +79,7 @@ export function createCalibration(
       },
       { transaction },
     );
+    await enqueueDetectorRecompute(detector.id, { transaction });
     return {
       result: calibration,
       event: {
@@ -106,6 +108,7 @@ export function deleteCalibration(
     async (transaction) => {
       const details = snapshot(calibration);
       await calibration.destroy({ transaction });
+      await enqueueDetectorRecompute(calibration.detectorId, { transaction });
       return {
         result: undefined,
         event: {

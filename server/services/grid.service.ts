@@ -1,13 +1,15 @@
 import type { GridQuantity } from '../../shared/physics/grid-construction.ts';
 import {
-  checkGridConstruction,
   GRID_QUANTITIES,
-  gridRuleProblems,
   type CreateGridInput,
   type DeriveGridInput,
   type GridDerivationDto,
   type UpdateGridInput,
 } from '../../shared/schemas/equipment.schema.ts';
+import {
+  checkGridConstruction,
+  gridRuleProblems,
+} from '../../shared/schemas/equipment-rules.ts';
 import { notFound, validationFailed } from '../errors.ts';
 import { Grid } from '../models/grid.model.ts';
 import type { AuditContext } from './audit.service.ts';

@@ -1,6 +1,6 @@
 import { useState, type FormEvent } from 'react';
 import type { CalibrationModel } from '../../../../shared/analysis/detector-calibration.ts';
-import { checkCalibrationFit } from '../../../../shared/schemas/equipment.schema.ts';
+import { checkCalibrationFit } from '../../../../shared/schemas/equipment-rules.ts';
 import { Button } from '../../../components/ui/button.tsx';
 import { TextField } from '../../../components/ui/field.tsx';
 import { ApiError } from '../../../lib/api-client.ts';

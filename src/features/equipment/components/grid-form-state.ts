@@ -1,10 +1,10 @@
 import {
   createGridSchema,
   GRID_QUANTITIES,
-  gridRuleProblems,
   type CreateGridInput,
   type GridDto,
 } from '../../../../shared/schemas/equipment.schema.ts';
+import { gridRuleProblems } from '../../../../shared/schemas/equipment-rules.ts';
 import type { GridQuantity } from '../../../../shared/physics/grid-construction.ts';
 import type { ErrorDetail } from '../../../../shared/errors.ts';
 import { parseNumberField } from './format.ts';
