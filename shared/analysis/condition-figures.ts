@@ -328,28 +328,13 @@ export function conditionFigures(
     acrossReplicates(images, (m) =>
       perMas(m.beamStop!.scatterSignal, m.exposureMas),
     );
-  const primaryPerMas = (images: readonly ImageMeasurement[]) =>
-    acrossReplicates(images, (m) =>
-      perMas(m.beamStop!.primarySignal, m.exposureMas),
-    );
   let ts: Estimate | null = null;
   let tsSource: ConditionMethod['scatterTransmissionSource'] = null;
-  let tpForPrediction: Estimate | null = tp;
-  let tpSource: ConditionMethod['predictedCifPrimaryTransmission'] = tp
-    ? 'object'
-    : null;
   if (beamStopBoth) {
     ts = attempt('Scatter transmission', warnings, () =>
       ratio(scatterPerMas(gridImages), scatterPerMas(noGridImages)),
     );
-    const tpBeamStop = attempt('Beam-stop primary transmission', warnings, () =>
-      ratio(primaryPerMas(gridImages), primaryPerMas(noGridImages)),
-    );
     if (ts) tsSource = 'beam-stop';
-    if (tpBeamStop) {
-      tpForPrediction = tpBeamStop;
-      tpSource = 'beam-stop';
-    }
   } else if (
     options.statedScatterTransmission !== undefined &&
     options.statedScatterTransmission !== null
@@ -361,24 +346,33 @@ export function conditionFigures(
     ts && tp ? ratio(tp, ts) : null,
   );
   const spr = noGrid.scatterToPrimaryRatio;
-  // With beam stops on both sides K = (1+SPR)·Tp/(Tp + SPR·Ts) reduces to
-  // (1 − SF_g)/(1 − SF_ng); propagating that keeps SPR, Tp and Ts (which
-  // share the no-grid scatter) from being treated as independent.
+  // With beam stops on both sides K = (1+SPR)·Tp/(Tp + SPR·Ts) with the
+  // beam-stop Tp reduces to (1 − SF_g)/(1 − SF_ng); propagating that keeps
+  // SPR, Tp and Ts (which share the no-grid scatter) from being treated as
+  // independent, and needs no exposure.
+  let tpSource: ConditionMethod['predictedCifPrimaryTransmission'] = null;
   const predictedK = attempt(
     'The predicted contrast improvement factor',
     warnings,
-    () =>
-      tpSource === 'beam-stop' && grid.scatterFraction && noGrid.scatterFraction
-        ? propagateEstimates(
-            (sfGrid, sfNoGrid) => (1 - sfGrid) / (1 - sfNoGrid),
-            [grid.scatterFraction, noGrid.scatterFraction],
-          )
-        : spr && tpForPrediction && ts
-          ? propagateEstimates(
-              (r, p, s) => ((1 + r) * p) / (p + r * s),
-              [spr, tpForPrediction, ts],
-            )
-          : null,
+    () => {
+      if (beamStopBoth && grid.scatterFraction && noGrid.scatterFraction) {
+        const k = propagateEstimates(
+          (sfGrid, sfNoGrid) => (1 - sfGrid) / (1 - sfNoGrid),
+          [grid.scatterFraction, noGrid.scatterFraction],
+        );
+        tpSource = 'beam-stop';
+        return k;
+      }
+      if (spr && tp && ts) {
+        const k = propagateEstimates(
+          (r, p, s) => ((1 + r) * p) / (p + r * s),
+          [spr, tp, ts],
+        );
+        tpSource = 'object';
+        return k;
+      }
+      return null;
+    },
   );
 
   let welch: WelchTestResult | null = null;
@@ -424,7 +418,7 @@ export function conditionFigures(
       snrImprovementFactor: `SIF = (CNR_g/√D_g)/(CNR_ng/√D_ng), D = ${DOSE_MEASURE_LABELS[options.doseMeasure]}`,
       uncertainty: basisOf([cif, tt, sif]),
       scatterTransmissionSource: tsSource,
-      predictedCifPrimaryTransmission: predictedK ? tpSource : null,
+      predictedCifPrimaryTransmission: tpSource,
       label:
         'field values from phantom images in a clinical room, not IEC 60627 stated values',
     },
