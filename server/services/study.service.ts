@@ -1,3 +1,4 @@
+import { isDeepStrictEqual } from 'node:util';
 import { Op, type Transaction, type WhereOptions } from 'sequelize';
 import type { Actor } from '../../shared/permissions.ts';
 import type {
@@ -242,10 +243,13 @@ export async function updateStudy(
       input.plan || input.gridIds
         ? await syncStudyConditions(study, next.gridIds, transaction)
         : null;
+    // Deep comparison: JSONB does not keep key order, so text would differ.
     const changed = Object.keys(input).filter(
       (k) =>
-        JSON.stringify(before[k as keyof typeof before]) !==
-        JSON.stringify(input[k as keyof UpdateStudyInput]),
+        !isDeepStrictEqual(
+          before[k as keyof typeof before],
+          input[k as keyof UpdateStudyInput],
+        ),
     );
     await recordAudit(
       audit,

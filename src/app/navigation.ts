@@ -12,6 +12,7 @@ const always = () => true;
 /** The main navigation, in order. */
 export const NAV_ITEMS: NavItem[] = [
   { to: '/', label: 'Home', isShown: always },
+  { to: '/studies', label: 'Studies', isShown: always },
   { to: '/admin/users', label: 'Users', isShown: (s) => s.can.manageUsers },
   { to: '/admin/mail', label: 'Sent mail', isShown: (s) => s.can.readSentMail },
   { to: '/images/upload', label: 'Upload', isShown: (s) => s.can.editStudies },

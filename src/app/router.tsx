@@ -46,6 +46,30 @@ const router = createBrowserRouter([
         element: page(() => import('./routes/upload-images-page.tsx')),
       },
       {
+        path: 'studies',
+        element: page(() => import('./routes/studies-page.tsx')),
+      },
+      {
+        path: 'studies/new',
+        element: page(() => import('./routes/study-new-page.tsx')),
+      },
+      {
+        path: 'studies/:id',
+        element: page(() => import('./routes/study-page.tsx')),
+      },
+      {
+        path: 'studies/:id/edit',
+        element: page(() => import('./routes/study-edit-page.tsx')),
+      },
+      {
+        path: 'studies/:id/checklist',
+        element: page(() => import('./routes/study-checklist-page.tsx')),
+      },
+      {
+        path: 'studies/:id/revisions/:revision',
+        element: page(() => import('./routes/study-revision-page.tsx')),
+      },
+      {
         path: 'admin/users',
         element: page(() => import('./routes/admin-users-page.tsx')),
       },

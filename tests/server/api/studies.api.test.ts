@@ -367,6 +367,26 @@ describe('creating and editing a study', () => {
     });
   });
 
+  it('records only the fields that really changed when the whole form is sent back', async () => {
+    const { agent } = await signedInAgent(t.app, 'resident');
+    const body = await newStudyBody();
+    const created = (await agent.post('/api/studies').send(body)).body.data;
+    const { plan } = (await agent.get(`/api/studies/${created.id}`)).body.data;
+
+    const res = await agent
+      .patch(`/api/studies/${created.id}`)
+      .send({ ...body, plan, purpose: 'Second look at 20 cm.' });
+
+    expect(res.status).toBe(200);
+    const audit = await AuditEvent.findOne({
+      where: { action: 'study.updated', targetId: String(created.id) },
+    });
+    expect(audit?.details).toMatchObject({
+      changed: ['purpose'],
+      conditions: { added: 0, removed: 0, kept: 2 },
+    });
+  });
+
   it('lets a physicist edit a resident’s draft', async () => {
     const { agent: resident } = await signedInAgent(t.app, 'resident');
     const { agent: physicist } = await signedInAgent(t.app, 'physicist');
