@@ -2,8 +2,13 @@ import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent } from '../../../server/models/audit-event.model.ts';
 import { Detector } from '../../../server/models/detector.model.ts';
+import { Grid } from '../../../server/models/grid.model.ts';
 import { Room } from '../../../server/models/room.model.ts';
+import { StudyGrid } from '../../../server/models/study-grid.model.ts';
+import { Study } from '../../../server/models/study.model.ts';
 import { XrayUnit } from '../../../server/models/xray-unit.model.ts';
+import { studyPlanSchema } from '../../../shared/schemas/study.schema.ts';
+import { SMALL_PLAN } from '../../helpers/study-factories.ts';
 import {
   browserAgent,
   signedInAgent,
@@ -329,5 +334,72 @@ describe('X-ray units and detectors', () => {
         },
       }),
     ).toBe(1);
+  });
+});
+
+describe('equipment a study uses', () => {
+  it('refuses to delete the room, detector and grid of a study (409) and keeps them', async () => {
+    const room = await postRoom();
+    const detector = await physicist.post('/api/equipment/detectors').send({
+      roomId: room.id,
+      name: 'Study panel',
+      detectorType: 'flat_panel_indirect',
+      pixelPitchUm: 139,
+    });
+    const grid = await physicist
+      .post('/api/equipment/grids')
+      .send({
+        label: unique('Study grid'),
+        ratio: 12,
+        stripFrequencyPerCm: 40,
+      });
+    const study = await Study.create({
+      roomId: room.id,
+      detectorId: detector.body.data.id,
+      title: 'Grid check',
+      purpose: 'Equipment in use',
+      plan: studyPlanSchema.parse(SMALL_PLAN),
+      createdBy: physicistId,
+    });
+    await StudyGrid.create({
+      studyId: study.id,
+      gridId: grid.body.data.id,
+      position: 0,
+    });
+
+    const gridRes = await physicist.delete(
+      `/api/equipment/grids/${grid.body.data.id}`,
+    );
+    expect(gridRes.status).toBe(409);
+    expect(gridRes.body.error.message).toBe(
+      'This grid is in use by a study, so it cannot be deleted.',
+    );
+    const detectorRes = await physicist.delete(
+      `/api/equipment/detectors/${detector.body.data.id}`,
+    );
+    expect(detectorRes.status).toBe(409);
+    expect(detectorRes.body.error.message).toBe(
+      'This detector is in use by a study, so it cannot be deleted.',
+    );
+    await Detector.update(
+      { roomId: (await postRoom()).id },
+      { where: { id: detector.body.data.id } },
+    );
+    const roomRes = await physicist.delete(`/api/equipment/rooms/${room.id}`);
+    expect(roomRes.status).toBe(409);
+    expect(roomRes.body.error.message).toBe(
+      'This room is in use by a study, so it cannot be deleted.',
+    );
+
+    expect(await Grid.findByPk(grid.body.data.id)).not.toBeNull();
+    expect(await Detector.findByPk(detector.body.data.id)).not.toBeNull();
+    expect(await Room.findByPk(room.id)).not.toBeNull();
+    const deletions = await AuditEvent.count({
+      where: {
+        action: ['grid.deleted', 'detector.deleted', 'room.deleted'],
+        actorId: physicistId,
+      },
+    });
+    expect(deletions).toBe(0);
   });
 });
