@@ -21,8 +21,10 @@ export const DETECTOR_TYPES = [
   'computed_radiography',
   'other',
 ] as const;
+/** One of {@link DETECTOR_TYPES}. */
 export type DetectorType = (typeof DETECTOR_TYPES)[number];
 
+/** Plain names of the detector types for forms and pages. */
 export const DETECTOR_TYPE_LABELS: Record<DetectorType, string> = {
   flat_panel_indirect: 'Flat panel, indirect (scintillator)',
   flat_panel_direct: 'Flat panel, direct (photoconductor)',
@@ -177,40 +179,52 @@ const factor = (label: string, min: number, max: number) =>
 
 const nothingToChange = (value: object) => Object.keys(value).length > 0;
 
+/** `:id` of a room, unit, detector or grid. */
 export const idParamsSchema = z.object({
   id: z.coerce.number().int().positive(),
 });
+/** `:id` of a detector and `:calibrationId` of one of its records. */
 export const calibrationParamsSchema = z.object({
   id: z.coerce.number().int().positive(),
   calibrationId: z.coerce.number().int().positive(),
 });
+/** Optional `?roomId=` filter of the unit, detector and grid lists. */
 export const byRoomQuerySchema = z.object({
   roomId: z.coerce.number().int().positive().optional(),
 });
 
+/** A new room: unique name, site, optional modality notes. */
 export const createRoomSchema = z.object({
   name: requiredText('room name', 120),
   site: requiredText('site', 160),
   modalityNotes: optionalText('modality notes', 2000),
 });
+/** A validated new room. */
 export type CreateRoomInput = z.infer<typeof createRoomSchema>;
+/** A change to a room: any of its fields, at least one. */
 export const updateRoomSchema = createRoomSchema
   .partial()
   .refine(nothingToChange, 'Nothing to change.');
+/** A validated change to a room. */
 export type UpdateRoomInput = z.infer<typeof updateRoomSchema>;
 
+/** A new X-ray unit of a room. */
 export const createXrayUnitSchema = z.object({
   roomId: id('room'),
   name: requiredText('unit name', 120),
   model: optionalText('model', 160),
   serial: optionalText('serial number', 80),
 });
+/** A validated new X-ray unit. */
 export type CreateXrayUnitInput = z.infer<typeof createXrayUnitSchema>;
+/** A change to an X-ray unit, moving it included. */
 export const updateXrayUnitSchema = createXrayUnitSchema
   .partial()
   .refine(nothingToChange, 'Nothing to change.');
+/** A validated change to an X-ray unit. */
 export type UpdateXrayUnitInput = z.infer<typeof updateXrayUnitSchema>;
 
+/** A new detector of a room; pixel pitch in µm. */
 export const createDetectorSchema = z.object({
   roomId: id('room'),
   name: requiredText('detector name', 120),
@@ -225,10 +239,13 @@ export const createDetectorSchema = z.object({
     ),
   serial: optionalText('serial number', 80),
 });
+/** A validated new detector. */
 export type CreateDetectorInput = z.infer<typeof createDetectorSchema>;
+/** A change to a detector, moving it included. */
 export const updateDetectorSchema = createDetectorSchema
   .partial()
   .refine(nothingToChange, 'Nothing to change.');
+/** A validated change to a detector. */
 export type UpdateDetectorInput = z.infer<typeof updateDetectorSchema>;
 
 const gridConstructionShape = {
@@ -241,6 +258,7 @@ const gridConstructionShape = {
 
 /** Any subset of r, N, h, D, t to derive from, without saving. */
 export const deriveGridSchema = z.object(gridConstructionShape);
+/** Validated values to derive from. */
 export type DeriveGridInput = z.infer<typeof deriveGridSchema>;
 
 /**
@@ -271,10 +289,13 @@ export const createGridSchema = z.object({
   statedFiguresNote: optionalText('note on the stated figures', 300),
   notes: optionalText('notes', 2000),
 });
+/** A validated new grid (entered values only). */
 export type CreateGridInput = z.infer<typeof createGridSchema>;
+/** A change to a grid: construction values given replace the entered ones; null clears. */
 export const updateGridSchema = createGridSchema
   .partial()
   .refine(nothingToChange, 'Nothing to change.');
+/** A validated change to a grid. */
 export type UpdateGridInput = z.infer<typeof updateGridSchema>;
 
 const calibrationPointSchema = z.object({
@@ -300,13 +321,16 @@ export const fitCalibrationSchema = z.object({
     .enum(CALIBRATION_MODELS, { error: 'Choose linear, logarithmic or power.' })
     .optional(),
 });
+/** Validated points (and model) to fit. */
 export type FitCalibrationInput = z.infer<typeof fitCalibrationSchema>;
 
+/** A new calibration record: date, beam quality, points, optional model. */
 export const createCalibrationSchema = fitCalibrationSchema.extend({
   calibratedOn: z.iso.date('Enter the calibration date as YYYY-MM-DD.'),
   beamQualityNote: requiredText('beam quality note', 300),
   notes: optionalText('notes', 2000),
 });
+/** A validated new calibration record. */
 export type CreateCalibrationInput = z.infer<typeof createCalibrationSchema>;
 
 /** The result of `checkGridConstruction` (equipment-rules.ts). */
@@ -327,6 +351,7 @@ export interface EquipmentPermissions {
   delete: boolean;
 }
 
+/** What the client receives about an X-ray unit. */
 export interface XrayUnitDto {
   id: number;
   roomId: number;
@@ -336,6 +361,7 @@ export interface XrayUnitDto {
   permissions: EquipmentPermissions;
 }
 
+/** What the client receives about a detector; pixel pitch in µm. */
 export interface DetectorDto {
   id: number;
   roomId: number;
@@ -348,6 +374,7 @@ export interface DetectorDto {
   permissions: EquipmentPermissions;
 }
 
+/** What the client receives about a grid; lengths in µm, N in lines/cm, distances in cm. */
 export interface GridDto extends StatedGridFigures {
   id: number;
   label: string;
@@ -373,6 +400,7 @@ export interface GridDto extends StatedGridFigures {
   permissions: EquipmentPermissions;
 }
 
+/** What the client receives about a room. */
 export interface RoomDto {
   id: number;
   name: string;
@@ -388,6 +416,7 @@ export interface RoomDetailDto extends RoomDto {
   grids: GridDto[];
 }
 
+/** What the client receives about a calibration record (air kerma in µGy). */
 export interface DetectorCalibrationDto {
   id: number;
   detectorId: number;
