@@ -2,6 +2,7 @@ import { createApp } from './app.ts';
 import { loadConfig } from './config/env.ts';
 import { sequelize } from './db/sequelize.ts';
 import { DEMO_USERS } from './db/demo-users.ts';
+import { startJobs, workersInProcess } from './jobs/recompute-study.worker.ts';
 import { startFakeSmtpServer } from './mail/fake-smtp-server.ts';
 import { createMailer } from './mail/mailer.ts';
 
@@ -16,6 +17,7 @@ const mailer = createMailer({
   smtpUrl: config.smtpUrl,
   fakeSmtpPort: fakeSmtp?.port,
 });
+const jobs = await startJobs(config, workersInProcess());
 const { app, close } = createApp({ config, mailer });
 const server = app.listen(config.port, config.host, () => {
   console.log(`\nLamella is running at ${config.publicUrl}`);
@@ -34,6 +36,7 @@ const server = app.listen(config.port, config.host, () => {
 
 async function shutdown(): Promise<void> {
   server.close();
+  await jobs.stop();
   await fakeSmtp?.close();
   await close();
   await sequelize.close();

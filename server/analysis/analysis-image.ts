@@ -1,4 +1,5 @@
 import type { DoseMeasure } from '../../shared/analysis/condition-figures.ts';
+import type { RegionLayout } from '../../shared/analysis/region-layout.ts';
 import type { SignalSource } from '../../shared/analysis/signal-domain.ts';
 import type { DecodedImage } from '../dicom/decode-dicom.ts';
 
@@ -17,7 +18,15 @@ export type AnalysisImage = Pick<
   | 'acquisition'
   | 'signalInverted'
   | 'warnings'
-> & { label: string };
+> & {
+  label: string;
+  /**
+   * This image's own placement of the condition's layout (same regions, in
+   * the same order, e.g. shifted to follow the phantom); the condition's
+   * layout when absent.
+   */
+  layout?: RegionLayout;
+};
 
 /**
  * The dose measure D of an image: exposure in mAs, DAP in dGy·cm² or

@@ -252,7 +252,10 @@ function measureSide(
         });
       }
     }
-    const resolved = resolveRegionLayout(layout, image.pixelSpacing);
+    const resolved = resolveRegionLayout(
+      image.layout ?? layout,
+      image.pixelSpacing,
+    );
     const domain = domains[i]!;
     const measurement = measureLayout(
       domain.pixels,

@@ -6,7 +6,9 @@ import { authRouter } from './auth.routes.ts';
 import { equipmentRouter } from './equipment.routes.ts';
 import { geometryRouter } from './geometry.routes.ts';
 import { imagesRouter } from './images.routes.ts';
+import { layoutsRouter } from './layouts.routes.ts';
 import { mailRouter } from './mail.routes.ts';
+import { resultsRouter } from './results.routes.ts';
 import { studiesRouter } from './studies.routes.ts';
 import { usersRouter } from './users.routes.ts';
 
@@ -23,6 +25,8 @@ export function apiRouter(deps: AppDeps): Router {
   router.use('/equipment', authenticate, equipmentRouter());
   router.use('/geometry', authenticate, geometryRouter());
   router.use('/images', authenticate, imagesRouter(deps.config));
+  router.use(layoutsRouter(deps.config));
+  router.use(resultsRouter());
   router.use((req) => {
     throw new AppError(
       404,

@@ -12,6 +12,7 @@ import {
   type PairingResult,
 } from '../../shared/studies/pairing.ts';
 import { validationFailed } from '../errors.ts';
+import { enqueueStudyRecompute } from '../jobs/recompute-study.job.ts';
 import { ImageAssignment } from '../models/image-assignment.model.ts';
 import { effectiveAcquisition, Image } from '../models/image.model.ts';
 import { StudyCondition } from '../models/study-condition.model.ts';
@@ -176,6 +177,10 @@ export async function saveAssignments(
     // Saving the same set again still changes the study's trail and time.
     study.changed('updatedAt', true);
     await study.save({ transaction });
+    await enqueueStudyRecompute(study.id, {
+      reason: 'assignments saved',
+      transaction,
+    });
   });
 }
 

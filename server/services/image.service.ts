@@ -7,6 +7,7 @@ import type {
 import { STUDY_STATUSES } from '../../shared/schemas/study.schema.ts';
 import { sequelize } from '../db/sequelize.ts';
 import { notFound } from '../errors.ts';
+import { enqueueStudyRecompute } from '../jobs/recompute-study.job.ts';
 import { fileAcquisition, Image } from '../models/image.model.ts';
 import type { ImageFacts } from '../policies/image.policy.ts';
 import type { StudyFacts } from '../policies/study.policy.ts';
@@ -105,6 +106,12 @@ export async function correctImage(
       },
       transaction,
     );
+    if (image.studyId !== null) {
+      await enqueueStudyRecompute(image.studyId, {
+        reason: 'image corrected',
+        transaction,
+      });
+    }
     return image;
   });
 }

@@ -9,6 +9,7 @@ import type {
 import { assertOpenForChanges } from '../../shared/studies/study-state.ts';
 import { sequelize } from '../db/sequelize.ts';
 import { notFound } from '../errors.ts';
+import { enqueueStudyRecompute } from '../jobs/recompute-study.job.ts';
 import type { Detector } from '../models/detector.model.ts';
 import type { Grid } from '../models/grid.model.ts';
 import { Room } from '../models/room.model.ts';
@@ -267,6 +268,10 @@ export async function updateStudy(
       },
       transaction,
     );
+    await enqueueStudyRecompute(study.id, {
+      reason: 'study changed',
+      transaction,
+    });
     return study;
   });
 }
