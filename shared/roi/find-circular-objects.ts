@@ -3,7 +3,7 @@ import { DomainError } from '../errors.ts';
 import type { Warning } from '../warnings.ts';
 import { formatRegionSpec } from './region-geometry.ts';
 import type { GreyImage, GreyImageInput } from './image-shift.ts';
-import { blockAverage, boxMean } from './image-shift.ts';
+import { blockAverage, boxMean, withoutPlane } from './image-shift.ts';
 
 /** Whether objects are searched darker, brighter or either than their surround. */
 export type ObjectPolarity = 'darker' | 'brighter' | 'either';
@@ -64,68 +64,6 @@ function robustSd(values: Float32Array): number {
   }
   sample.sort();
   return sample[sample.length >> 1]! * MAD_TO_SD;
-}
-
-/**
- * The image minus its least-squares plane over the included pixels: a heel
- * ramp would otherwise bias window means where the window is cut by the
- * edge.
- */
-function withoutPlane(image: GreyImage, include: Uint8Array | null): GreyImage {
-  const { columns, rows, pixels } = image;
-  // Normal equations of v = a + b·x + c·y, coordinates centred for conditioning.
-  const mx = columns / 2;
-  const my = rows / 2;
-  let n = 0,
-    sx = 0,
-    sy = 0,
-    sv = 0,
-    sxx = 0,
-    sxy = 0,
-    syy = 0,
-    sxv = 0,
-    syv = 0;
-  for (let y = 0; y < rows; y += 1) {
-    const yc = y + 0.5 - my;
-    for (let x = 0; x < columns; x += 1) {
-      const i = y * columns + x;
-      if (include && include[i] === 0) continue;
-      const xc = x + 0.5 - mx;
-      const v = pixels[i]!;
-      n += 1;
-      sx += xc;
-      sy += yc;
-      sv += v;
-      sxx += xc * xc;
-      sxy += xc * yc;
-      syy += yc * yc;
-      sxv += xc * v;
-      syv += yc * v;
-    }
-  }
-  const m = [
-    [n, sx, sy],
-    [sx, sxx, sxy],
-    [sy, sxy, syy],
-  ];
-  const det = (q: number[][]) =>
-    q[0]![0]! * (q[1]![1]! * q[2]![2]! - q[1]![2]! * q[2]![1]!) -
-    q[0]![1]! * (q[1]![0]! * q[2]![2]! - q[1]![2]! * q[2]![0]!) +
-    q[0]![2]! * (q[1]![0]! * q[2]![1]! - q[1]![1]! * q[2]![0]!);
-  const d = det(m);
-  const rhs = [sv, sxv, syv];
-  const solve = (k: number) =>
-    det(m.map((row, i) => row.map((v, j) => (j === k ? rhs[i]! : v)))) / d;
-  const [a, b, c] =
-    d !== 0 ? [solve(0), solve(1), solve(2)] : [n > 0 ? sv / n : 0, 0, 0];
-  const out = new Float32Array(pixels.length);
-  for (let y = 0; y < rows; y += 1) {
-    for (let x = 0; x < columns; x += 1) {
-      const i = y * columns + x;
-      out[i] = pixels[i]! - (a + b * (x + 0.5 - mx) + c * (y + 0.5 - my));
-    }
-  }
-  return { pixels: out, columns, rows };
 }
 
 function residual(

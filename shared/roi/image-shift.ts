@@ -146,6 +146,73 @@ export function boxMean(
   return out;
 }
 
+/**
+ * The image minus its least-squares plane a + b·x + c·y over the included
+ * pixels (all when `include` is null): a heel ramp would otherwise bias
+ * window means where the window is cut by the image edge.
+ * @param include 1 for pixels that enter the fit.
+ * @returns a new image.
+ */
+export function withoutPlane(
+  image: GreyImage,
+  include: Uint8Array | null,
+): GreyImage {
+  const { columns, rows, pixels } = image;
+  // Normal equations of v = a + b·x + c·y, coordinates centred for conditioning.
+  const mx = columns / 2;
+  const my = rows / 2;
+  let n = 0,
+    sx = 0,
+    sy = 0,
+    sv = 0,
+    sxx = 0,
+    sxy = 0,
+    syy = 0,
+    sxv = 0,
+    syv = 0;
+  for (let y = 0; y < rows; y += 1) {
+    const yc = y + 0.5 - my;
+    for (let x = 0; x < columns; x += 1) {
+      const i = y * columns + x;
+      if (include && include[i] === 0) continue;
+      const xc = x + 0.5 - mx;
+      const v = pixels[i]!;
+      n += 1;
+      sx += xc;
+      sy += yc;
+      sv += v;
+      sxx += xc * xc;
+      sxy += xc * yc;
+      syy += yc * yc;
+      sxv += xc * v;
+      syv += yc * v;
+    }
+  }
+  const m = [
+    [n, sx, sy],
+    [sx, sxx, sxy],
+    [sy, sxy, syy],
+  ];
+  const det = (q: number[][]) =>
+    q[0]![0]! * (q[1]![1]! * q[2]![2]! - q[1]![2]! * q[2]![1]!) -
+    q[0]![1]! * (q[1]![0]! * q[2]![2]! - q[1]![2]! * q[2]![0]!) +
+    q[0]![2]! * (q[1]![0]! * q[2]![1]! - q[1]![1]! * q[2]![0]!);
+  const d = det(m);
+  const rhs = [sv, sxv, syv];
+  const solve = (k: number) =>
+    det(m.map((row, i) => row.map((v, j) => (j === k ? rhs[i]! : v)))) / d;
+  const [a, b, c] =
+    d !== 0 ? [solve(0), solve(1), solve(2)] : [n > 0 ? sv / n : 0, 0, 0];
+  const out = new Float32Array(pixels.length);
+  for (let y = 0; y < rows; y += 1) {
+    for (let x = 0; x < columns; x += 1) {
+      const i = y * columns + x;
+      out[i] = pixels[i]! - (a + b * (x + 0.5 - mx) + c * (y + 0.5 - my));
+    }
+  }
+  return { pixels: out, columns, rows };
+}
+
 /** Pearson correlation of a and b moved by (dx, dy), over their overlap. */
 function correlationAt(
   a: GreyImage,
@@ -220,7 +287,7 @@ export interface ImageShift {
   /** Rows to add likewise. */
   dyPx: number;
   /**
-   * Correlation (−1…1, reported clipped at 0) of the two high-passed images
+   * Correlation (−1…1, reported clipped at 0) of the two band-passed images
    * at the shift found; near 1 when the same structures line up, near 0 when
    * nothing matches (uniform or unrelated images).
    */
@@ -237,25 +304,24 @@ export interface ImageShiftOptions {
 
 const COARSEST_SIZE_PX = 96;
 
-function detail(image: GreyImage): GreyImage {
-  // High-pass: the phantom's objects and edges carry the position; the heel
-  // ramp, the exposure and the grid's overall attenuation do not.
-  const radius = Math.max(
-    3,
-    Math.round(Math.min(image.columns, image.rows) / 16),
-  );
-  const background = boxMean(image, radius);
+function bandPass(image: GreyImage): GreyImage {
+  // The phantom's objects and edges carry the position; the heel ramp, the
+  // exposure and the grid's overall attenuation (low frequencies) do not,
+  // and pixel noise (the highest) differs between exposures.
+  const size = Math.min(image.columns, image.rows);
+  const flat = withoutPlane(image, null);
+  const fine = boxMean(flat, Math.max(1, Math.round(size / 100)));
+  const coarse = boxMean(flat, Math.max(3, Math.round(size / 16)));
   const out = new Float32Array(image.pixels.length);
-  for (let i = 0; i < out.length; i += 1) {
-    out[i] = image.pixels[i]! - background[i]!;
-  }
+  for (let i = 0; i < out.length; i += 1) out[i] = fine[i]! - coarse[i]!;
   return { pixels: out, columns: image.columns, rows: image.rows };
 }
 
 /**
  * Estimates how far the phantom moved between two exposures of it (grid and
  * no-grid, replicates): both images are block-averaged to a base size,
- * high-passed, and reduced by 2 × 2 averaging into a pyramid; the normalised
+ * freed of their least-squares plane (heel ramp), band-passed (a small box
+ * mean minus a large one), and reduced by 2 × 2 averaging into a pyramid; the normalised
  * cross-correlation is maximised exhaustively over shifts up to
  * `maxShiftFraction` of the size on the coarsest level, refined by ±1 pixel
  * on each finer level, and given sub-pixel precision by a parabola through
@@ -291,7 +357,7 @@ export function estimateImageShift(
     Math.ceil(Math.max(columns, rows) / (options.baseSizePx ?? 768)),
   );
   const base = (image: GreyImageInput) =>
-    detail(
+    bandPass(
       blockAverage(image.pixels, image.columns, columns, rows, baseFactor),
     );
   const levels: Array<[GreyImage, GreyImage]> = [
