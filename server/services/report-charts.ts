@@ -29,7 +29,13 @@ const SPELLED: Record<string, string> = {
   Σ: 'Sigma',
   σ: 'sigma',
   Δ: 'Delta ',
-  μ: 'u',
+  μ: 'mu',
+  θ: 'theta',
+  ψ: 'psi',
+  φ: 'phi',
+  λ: 'lambda',
+  ν: 'nu',
+  π: 'pi',
   '√': 'sqrt',
   '≤': '<=',
   '≥': '>=',
@@ -40,12 +46,12 @@ const SPELLED: Record<string, string> = {
 
 /** Text as the embedded Lexend can print it (see SPELLED). */
 export function pdfSafe(text: string): string {
-  return text.replace(/[ΣσΔμ√≤≥→≈∞]/g, (c) => SPELLED[c] ?? c);
+  return text.replace(/[\u0370-\u03ff√≤≥→≈∞]/g, (c) => SPELLED[c] ?? '?');
 }
 
 /**
- * Round axis ticks covering [min, max]: steps of 1, 2 or 5 × 10ⁿ, about
- * `count` of them.
+ * Round axis ticks from at or below `min` to at or above `max`: steps of
+ * 1, 2 or 5 × 10ⁿ, about `count` of them.
  */
 export function niceTicks(min: number, max: number, count = 5): number[] {
   if (!Number.isFinite(min) || !Number.isFinite(max)) return [];
@@ -59,9 +65,10 @@ export function niceTicks(min: number, max: number, count = 5): number[] {
     [1, 2, 5, 10].map((m) => m * magnitude).find((s) => s >= raw) ??
     10 * magnitude;
   const first = Math.floor(min / step) * step;
+  const last = Math.ceil(max / step) * step;
   const ticks: number[] = [];
-  for (let t = first; t <= max + step * 0.5; t += step) {
-    ticks.push(Number(t.toPrecision(12)));
+  for (let i = 0; first + i * step <= last + step * 1e-9; i += 1) {
+    ticks.push(Number((first + i * step).toPrecision(12)));
   }
   return ticks;
 }
@@ -122,7 +129,9 @@ export function drawChart(
   const xs = points.map((p) => p.x);
   const ys = points.flatMap((p) => [p.low, p.high, p.y]);
   if (chart.reference !== null) ys.push(chart.reference);
-  const xTicks = niceTicks(Math.min(...xs), Math.max(...xs), 5);
+  // Pad x so points and their error bars stand clear of the axes.
+  const xPad = (Math.max(...xs) - Math.min(...xs)) * 0.06 || 1;
+  const xTicks = niceTicks(Math.min(...xs) - xPad, Math.max(...xs) + xPad, 5);
   const yTicks = niceTicks(Math.min(...ys), Math.max(...ys), 5);
   const [x0, x1] = [xTicks[0]!, xTicks[xTicks.length - 1]!];
   const [y0, y1] = [yTicks[0]!, yTicks[yTicks.length - 1]!];
