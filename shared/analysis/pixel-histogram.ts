@@ -15,6 +15,48 @@ export interface PixelHistogram {
 // not wait on the same counter; reused between calls.
 let partials = new Int32Array(4 * 4096);
 
+/**
+ * The 16-bit fast path: value >>> shift is the bin. Spans that continue one
+ * another in memory (whole rows) are walked as one run.
+ */
+function shiftedUint16Histogram(
+  pixels: Uint16Array,
+  columns: number,
+  spans: RegionSpans,
+  shift: number,
+  counts: Uint32Array,
+): void {
+  const bins = counts.length;
+  if (partials.length < 4 * bins) partials = new Int32Array(4 * bins);
+  const a = partials;
+  a.fill(0, 0, 4 * bins);
+  const s = spans.spans;
+  const b1 = bins;
+  const b2 = 2 * bins;
+  const b3 = 3 * bins;
+  const stop = spans.count * 3;
+  let k = 0;
+  while (k < stop) {
+    let i = s[k]! * columns + s[k + 1]!;
+    let end = s[k]! * columns + s[k + 2]!;
+    k += 3;
+    while (k < stop && s[k]! * columns + s[k + 1]! === end) {
+      end = s[k]! * columns + s[k + 2]!;
+      k += 3;
+    }
+    for (; i + 3 < end; i += 4) {
+      a[pixels[i]! >>> shift]! += 1;
+      a[b1 + (pixels[i + 1]! >>> shift)]! += 1;
+      a[b2 + (pixels[i + 2]! >>> shift)]! += 1;
+      a[b3 + (pixels[i + 3]! >>> shift)]! += 1;
+    }
+    for (; i < end; i += 1) a[pixels[i]! >>> shift]! += 1;
+  }
+  for (let b = 0; b < bins; b += 1) {
+    counts[b] = a[b]! + a[b1 + b]! + a[b2 + b]! + a[b3 + b]!;
+  }
+}
+
 function clampedBin(
   v: number,
   rangeMin: number,
@@ -60,34 +102,15 @@ export function pixelHistogram(
     rangeMax === 65536 &&
     Number.isInteger(shift)
   ) {
-    if (partials.length < 4 * bins) partials = new Int32Array(4 * bins);
-    const a = partials;
-    a.fill(0, 0, 4 * bins);
-    const b1 = bins;
-    const b2 = 2 * bins;
-    const b3 = 3 * bins;
-    for (let k = 0; k < spans.count * 3; k += 3) {
-      const base = s[k]! * columns;
-      let i = base + s[k + 1]!;
-      const end = base + s[k + 2]!;
-      for (; i + 3 < end; i += 4) {
-        a[pixels[i]! >>> shift]! += 1;
-        a[b1 + (pixels[i + 1]! >>> shift)]! += 1;
-        a[b2 + (pixels[i + 2]! >>> shift)]! += 1;
-        a[b3 + (pixels[i + 3]! >>> shift)]! += 1;
-      }
-      for (; i < end; i += 1) a[pixels[i]! >>> shift]! += 1;
-    }
-    for (let b = 0; b < bins; b += 1) {
-      counts[b] = a[b]! + a[b1 + b]! + a[b2 + b]! + a[b3 + b]!;
-    }
+    shiftedUint16Histogram(pixels, columns, spans, shift, counts);
   } else {
     for (let k = 0; k < spans.count * 3; k += 3) {
       const base = s[k]! * columns;
       for (let i = base + s[k + 1]!, end = base + s[k + 2]!; i < end; i += 1) {
         const v = pixels[i]!;
-        if (Number.isFinite(v))
+        if (Number.isFinite(v)) {
           counts[clampedBin(v, rangeMin, binWidth, last)]! += 1;
+        }
       }
     }
   }
