@@ -21,6 +21,13 @@ export type EnqueueOutcome =
   'queued' | 'already_waiting' | 'study_locked' | 'no_study' | 'after_commit';
 
 const localWorkers = new Set<string>();
+/** Sends deferred to a commit that have not finished yet. */
+const pending = new Set<Promise<unknown>>();
+
+/** Resolves when every send deferred to a commit has been made (or failed). */
+export async function settleDeferredEnqueues(): Promise<void> {
+  await Promise.allSettled([...pending]);
+}
 
 /** Remembers a worker of this process, to wake it when a job is sent from here. */
 export function registerLocalWorker(workerId: string): void {
@@ -126,9 +133,12 @@ export async function enqueueStudyRecompute(
   const reason = options.reason ?? 'change';
   if (options.transaction) {
     options.transaction.afterCommit(() => {
-      enqueueNow(studyId, reason, options.settings).catch((error: unknown) =>
-        console.error(`recompute of study ${studyId} not queued:`, error),
+      const sent = enqueueNow(studyId, reason, options.settings).catch(
+        (error: unknown) =>
+          console.error(`recompute of study ${studyId} not queued:`, error),
       );
+      pending.add(sent);
+      void sent.finally(() => pending.delete(sent));
     });
     return 'after_commit';
   }

@@ -11,6 +11,7 @@ import {
   clearLocalWorkers,
   recomputeStudyJobSchema,
   registerLocalWorker,
+  settleDeferredEnqueues,
   type RecomputeStudyJob,
 } from './recompute-study.job.ts';
 
@@ -84,6 +85,7 @@ export async function startJobs(
   return {
     workers,
     stop: async () => {
+      await settleDeferredEnqueues();
       clearLocalWorkers();
       await stopJobQueue();
     },

@@ -6,6 +6,7 @@ import { jobQueue, QUEUES, stopJobQueue } from '../../../server/jobs/queue.ts';
 import {
   enqueueDetectorRecompute,
   enqueueStudyRecompute,
+  settleDeferredEnqueues,
 } from '../../../server/jobs/recompute-study.job.ts';
 import {
   startRecomputeWorkers,
@@ -76,7 +77,7 @@ beforeAll(async () => {
     .send({ layout: DISC_LAYOUT, referenceImageId: null })
     .expect(200);
   // The saves above queue their own jobs after commit; start from an empty queue.
-  await eventually(async () => (await waitingJobs(s.studyId)) === 1);
+  await settleDeferredEnqueues();
   await (await jobQueue()).purgeQueue(QUEUES.recomputeStudy.name);
 });
 
@@ -105,7 +106,7 @@ describe('enqueueStudyRecompute', () => {
         kvps: [90],
       },
     );
-    await eventually(async () => (await waitingJobs(other.studyId)) === 1);
+    await settleDeferredEnqueues();
     await (await jobQueue()).purgeQueue(QUEUES.recomputeStudy.name);
     await Study.update(
       { status: 'submitted' },
@@ -122,7 +123,7 @@ describe('enqueueStudyRecompute', () => {
       fromRoot('test-output/jobs/tx'),
       { kvps: [90] },
     );
-    await eventually(async () => (await waitingJobs(other.studyId)) === 1);
+    await settleDeferredEnqueues();
     await (await jobQueue()).purgeQueue(QUEUES.recomputeStudy.name);
     await sequelize
       .transaction(async (transaction) => {
@@ -132,12 +133,13 @@ describe('enqueueStudyRecompute', () => {
         throw new Error('roll back');
       })
       .catch(() => undefined);
-    await new Promise((resolve) => setTimeout(resolve, 300));
+    await settleDeferredEnqueues();
     expect(await waitingJobs(other.studyId)).toBe(0);
     await sequelize.transaction(async (transaction) => {
       await enqueueStudyRecompute(other.studyId, { transaction });
     });
-    await eventually(async () => (await waitingJobs(other.studyId)) === 1);
+    await settleDeferredEnqueues();
+    expect(await waitingJobs(other.studyId)).toBe(1);
     await (await jobQueue()).purgeQueue(QUEUES.recomputeStudy.name);
   });
 
