@@ -134,4 +134,44 @@ describe('the geometry page in the browser', () => {
     await screenshot(page, 'study-geometry-warning');
     await page.context().close();
   });
+
+  it('sets predicted figures beside the results of a study', async () => {
+    const page = await newPage(browser);
+    await signIn(page, server.baseUrl, 'physicist');
+    const room = await buildRoom();
+    const grid = await buildGrid(12, room.id);
+    // N 40, t 36 µm, r 12 with an aluminium interspace: PHYSICS.md §6.
+    await grid.update({
+      stripThicknessUm: 36,
+      interspaceMaterial: 'aluminium',
+    });
+    const created = await page.request.post(`${server.baseUrl}/api/studies`, {
+      headers: { Origin: server.baseUrl },
+      data: {
+        title: 'Predicted beside measured',
+        purpose: 'What the 12:1 grid should do at 70 and 81 kV.',
+        roomId: room.id,
+        detectorId: null,
+        gridIds: [grid.id],
+        plan: SMALL_PLAN,
+      },
+    });
+    expect(created.status()).toBe(201);
+    const { data } = (await created.json()) as { data: { id: number } };
+    await page.goto(`${server.baseUrl}/studies/${data.id}/results`);
+    const section = page.getByRole('region', { name: 'Predicted figures' });
+    const panels = section.getByTestId('predicted-figures');
+    await panels.first().waitFor();
+    expect(await panels.count()).toBe(2);
+    await expect(panels.first().textContent()).resolves.toContain(
+      'hardened by 20 cm PMMA',
+    );
+    await section.getByLabel('Scatter-to-primary ratio (assumed)').fill('2');
+    await section
+      .getByText('scatter-to-primary ratio of 2 without the grid')
+      .first()
+      .waitFor();
+    await screenshot(page, 'study-results-predicted');
+    await page.context().close();
+  });
 });

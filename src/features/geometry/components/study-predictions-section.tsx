@@ -50,6 +50,11 @@ export function StudyPredictionsSection({
           />
         </div>
       </div>
+      <p className="text-sm text-slate-600">
+        Predicted from each grid’s construction and NIST attenuation data for
+        the condition’s beam through its phantom. Measured values beside them
+        are field values from this study’s images, not IEC 60627 values.
+      </p>
       {predictions.isPending && <Loading what="the predicted figures" />}
       {predictions.isError && (
         <ErrorNotice
