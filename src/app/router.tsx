@@ -62,6 +62,18 @@ const router = createBrowserRouter([
         element: page(() => import('./routes/study-edit-page.tsx')),
       },
       {
+        path: 'studies/:id/regions',
+        element: page(() => import('./routes/region-editor-page.tsx')),
+      },
+      {
+        path: 'studies/:id/regions/:imageId',
+        element: page(() => import('./routes/region-editor-page.tsx')),
+      },
+      {
+        path: 'studies/:id/results',
+        element: page(() => import('./routes/study-results-page.tsx')),
+      },
+      {
         path: 'studies/:id/checklist',
         element: page(() => import('./routes/study-checklist-page.tsx')),
       },

@@ -116,6 +116,18 @@ export default function StudyPage() {
         actions={
           <div className="flex gap-3 text-sm">
             <Link
+              to={`/studies/${id}/regions`}
+              className="rounded-lg px-3 py-2 text-lamina-800 ring-1 ring-lamina-300 hover:bg-lamina-50"
+            >
+              Regions
+            </Link>
+            <Link
+              to={`/studies/${id}/results`}
+              className="rounded-lg px-3 py-2 text-lamina-800 ring-1 ring-lamina-300 hover:bg-lamina-50"
+            >
+              Results
+            </Link>
+            <Link
               to={`/studies/${id}/checklist`}
               className="rounded-lg px-3 py-2 text-lamina-800 ring-1 ring-lamina-300 hover:bg-lamina-50"
             >
