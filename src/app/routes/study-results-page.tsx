@@ -76,9 +76,11 @@ export default function StudyResultsPage() {
           {computed.length === 0 && (
             <Empty>
               No figures yet.{' '}
-              {r.layout
-                ? 'Assign the images to the conditions and recompute.'
-                : 'Draw and save the regions first.'}
+              {r.progress.isComputing
+                ? 'They appear here as each condition is computed.'
+                : r.layout
+                  ? 'Assign the images to the conditions and recompute.'
+                  : 'Draw and save the regions first.'}
             </Empty>
           )}
           {computed.length > 0 && (
