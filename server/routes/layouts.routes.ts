@@ -42,18 +42,20 @@ import { createDiskImageStore } from '../services/image-storage.service.ts';
 import { findImageById, imageFacts } from '../services/image.service.ts';
 import {
   applyStudyLayout,
+  findObjectsInImage,
+  imageRegionsOf,
+  placedLayoutFor,
+  setImageRegions,
+  spacingOf,
+} from '../services/image-region.service.ts';
+import {
   createLibraryLayout,
   deleteLibraryLayout,
   findLibraryLayout,
-  findObjectsInImage,
   findStudyLayout,
-  imageRegionsOf,
   listLibraryLayouts,
   listPlacements,
-  placedLayoutFor,
-  setImageRegions,
   setStudyLayout,
-  spacingOf,
   updateLibraryLayout,
 } from '../services/region-layout.service.ts';
 import { findStudyFor } from '../services/study.service.ts';

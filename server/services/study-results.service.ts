@@ -30,7 +30,8 @@ import {
   type ConditionImageSet,
 } from './image-pairing.service.ts';
 import type { ImageStore } from './image-storage.service.ts';
-import { findStudyLayout, placedLayoutFor } from './region-layout.service.ts';
+import { placedLayoutFor } from './image-region.service.ts';
+import { findStudyLayout } from './region-layout.service.ts';
 import { STUDY_AUDIT_TARGET } from './study.service.ts';
 
 /** What computing results needs from the outside world. */
