@@ -1,3 +1,5 @@
+import { spawn } from 'node:child_process';
+import { once } from 'node:events';
 import type TestAgent from 'supertest/lib/agent.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { fromRoot } from '../../../server/config/paths.ts';
@@ -153,8 +155,46 @@ describe('enqueueStudyRecompute', () => {
   });
 });
 
+describe('a separate worker process', () => {
+  it('takes a job sent from this process through the shared PostgreSQL queue', async () => {
+    const child = spawn(
+      process.execPath,
+      ['--import', 'tsx', 'server/worker.ts'],
+      {
+        cwd: fromRoot('.'),
+        env: { ...process.env, UPLOADS_DIR: UPLOADS },
+        stdio: ['ignore', 'pipe', 'pipe'],
+      },
+    );
+    let output = '';
+    child.stdout.on('data', (chunk: Buffer) => (output += chunk.toString()));
+    child.stderr.on('data', (chunk: Buffer) => (output += chunk.toString()));
+    try {
+      await ConditionAnalysis.update(
+        { status: 'failed' },
+        { where: { studyId: s.studyId } },
+      );
+      expect(
+        await enqueueStudyRecompute(s.studyId, { reason: 'other process' }),
+      ).not.toBe('study_locked');
+      await eventually(async () =>
+        (await statuses(s.studyId)).every((x) => x === 'done'),
+      );
+      expect(output).toContain('taking recompute jobs');
+    } finally {
+      child.kill('SIGTERM');
+      await once(child, 'exit');
+    }
+  });
+});
+
 describe('the recompute worker', () => {
   it('works the waiting job until every condition is done (bounded wait)', async () => {
+    await ConditionAnalysis.update(
+      { status: 'failed' },
+      { where: { studyId: s.studyId } },
+    );
+    expect(await enqueueStudyRecompute(s.studyId)).toBe('queued');
     await startRecomputeWorkers(
       1,
       { store: createDiskImageStore(fromRoot(UPLOADS)) },
