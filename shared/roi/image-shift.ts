@@ -49,18 +49,22 @@ export function blockAverage(
   const outColumns = Math.ceil(columns / factor);
   const outRows = Math.ceil(rows / factor);
   const sums = new Float64Array(outColumns * outRows);
-  const counts = new Float64Array(outColumns * outRows);
+  const block = new Int32Array(columns);
+  for (let x = 0; x < columns; x += 1) block[x] = Math.floor(x / factor);
   for (let y = 0; y < rows; y += 1) {
     const row = Math.floor(y / factor) * outColumns;
     const base = y * stride;
-    for (let x = 0; x < columns; x += 1) {
-      const k = row + Math.floor(x / factor);
-      sums[k]! += pixels[base + x]!;
-      counts[k]! += 1;
-    }
+    for (let x = 0; x < columns; x += 1)
+      sums[row + block[x]!]! += pixels[base + x]!;
   }
   const out = new Float32Array(sums.length);
-  for (let k = 0; k < out.length; k += 1) out[k] = sums[k]! / counts[k]!;
+  for (let by = 0; by < outRows; by += 1) {
+    const h = Math.min(factor, rows - by * factor);
+    for (let bx = 0; bx < outColumns; bx += 1) {
+      const w = Math.min(factor, columns - bx * factor);
+      out[by * outColumns + bx] = sums[by * outColumns + bx]! / (w * h);
+    }
+  }
   return { pixels: out, columns: outColumns, rows: outRows };
 }
 
