@@ -23,24 +23,21 @@ import type {
 import type { Warning } from '../../shared/warnings.ts';
 import { sequelize } from '../db/sequelize.ts';
 import { activeBaselinesOf, type ActiveBaseline } from './baseline.service.ts';
+import {
+  FACT_FIGURES,
+  boardSource,
+  refreshBoardFacts,
+  type SourceFilters,
+} from './compare-facts.service.ts';
 
 /**
  * The comparison board's queries: every condition the viewer may see that
  * matches the filters, its figures, and aggregates per grid, phantom
- * thickness and kV, per room and phantom thickness and per grid, all computed in PostgreSQL. The
- * viewer's scope (which study states) is part of every WHERE clause, so no
- * row outside it is ever read into the server.
+ * thickness and kV, per room and phantom thickness and per grid. Counting,
+ * listing and summing run in PostgreSQL over the board's source rows
+ * (compare-facts.service.ts); the viewer's scope (which study states)
+ * decides which rows the source holds, so no row outside it is read.
  */
-
-/** The figures the board aggregates. */
-export const AGGREGATED_FIGURES: readonly FigureKey[] = [
-  'snr_improvement_factor',
-  'contrast_improvement_factor',
-  'bucky_factor',
-  'primary_transmission',
-  'scatter_transmission',
-  'selectivity',
-];
 
 /** z for a two-sided 95 % normal interval. */
 const Z_95 = 1.959964;
@@ -133,8 +130,7 @@ export interface BoardGrid {
   statedFiguresNote: string | null;
 }
 
-interface Where {
-  sql: string;
+interface Where extends SourceFilters {
   replacements: Record<string, unknown>;
 }
 
@@ -145,73 +141,74 @@ const dayAfter = (date: string): string => {
   return next.toISOString();
 };
 
-/**
- * The SQL date of a study on the board: its signed date, or for an unsigned
- * study its created date.
- */
-function studyDateSql(statuses: readonly StudyStatus[]): string {
-  return statuses.length === 1 && statuses[0] === 'signed'
-    ? 's.signed_at'
-    : 'COALESCE(s.signed_at, s.created_at)';
-}
+/** Each filter's column in the facts table and in the base tables. */
+const FILTER_COLUMNS = {
+  study: ['study_id', 's.id'],
+  room: ['room_id', 's.room_id'],
+  detector: ['detector_id', 's.detector_id'],
+  grid: ['grid_id', 'sc.grid_id'],
+  kvp: ['kvp', 'sc.kvp'],
+  thickness: ['phantom_thickness_cm', 'sc.phantom_thickness_cm'],
+  // A study's date: signed date, or for an unsigned study its creation.
+  date: ['signed_at', 'COALESCE(s.signed_at, s.created_at)'],
+} as const;
 
 /**
- * The WHERE clause of every board query over studies `s` and conditions
- * `sc`: the viewer's study states first, then each filter given.
+ * The WHERE clauses of a board query, over the signed facts and over the
+ * base tables (unsigned studies), with their replacements; the viewer's
+ * unsigned states go in `:unsigned`, and with no filter the clause is TRUE.
  */
 export function boardWhere(
   filters: BoardFilters,
   statuses: readonly StudyStatus[],
 ): Where {
-  const parts = ['s.status IN (:statuses)'];
-  const replacements: Record<string, unknown> = { statuses: [...statuses] };
-  const add = (sql: string, name: string, value: unknown) => {
-    parts.push(sql);
+  const facts: string[] = ['TRUE'];
+  const live: string[] = ['TRUE'];
+  const replacements: Record<string, unknown> = {
+    unsigned: statuses.filter((s) => s !== 'signed'),
+  };
+  const add = (
+    column: keyof typeof FILTER_COLUMNS,
+    operator: string,
+    name: string,
+    value: unknown,
+  ) => {
+    const [fact, base] = FILTER_COLUMNS[column];
+    facts.push(`${fact} ${operator}`);
+    live.push(`${base} ${operator}`);
     replacements[name] = value;
   };
   if (filters.studyId !== undefined)
-    add('s.id = :studyId', 'studyId', filters.studyId);
-  if (filters.rooms?.length)
-    add('s.room_id IN (:rooms)', 'rooms', filters.rooms);
-  if (filters.detectors?.length) {
-    add('s.detector_id IN (:detectors)', 'detectors', filters.detectors);
-  }
-  if (filters.grids?.length)
-    add('sc.grid_id IN (:grids)', 'grids', filters.grids);
+    add('study', '= :studyId', 'studyId', filters.studyId);
+  if (filters.rooms?.length) add('room', 'IN (:rooms)', 'rooms', filters.rooms);
+  if (filters.detectors?.length)
+    add('detector', 'IN (:detectors)', 'detectors', filters.detectors);
+  if (filters.grids?.length) add('grid', 'IN (:grids)', 'grids', filters.grids);
   if (filters.kvMin !== undefined)
-    add('sc.kvp >= :kvMin', 'kvMin', filters.kvMin);
+    add('kvp', '>= :kvMin', 'kvMin', filters.kvMin);
   if (filters.kvMax !== undefined)
-    add('sc.kvp <= :kvMax', 'kvMax', filters.kvMax);
+    add('kvp', '<= :kvMax', 'kvMax', filters.kvMax);
   if (filters.thicknessMin !== undefined) {
-    add(
-      'sc.phantom_thickness_cm >= :thicknessMin',
-      'thicknessMin',
-      filters.thicknessMin,
-    );
+    add('thickness', '>= :thicknessMin', 'thicknessMin', filters.thicknessMin);
   }
   if (filters.thicknessMax !== undefined) {
-    add(
-      'sc.phantom_thickness_cm <= :thicknessMax',
-      'thicknessMax',
-      filters.thicknessMax,
-    );
+    add('thickness', '<= :thicknessMax', 'thicknessMax', filters.thicknessMax);
   }
-  const date = studyDateSql(statuses);
   if (filters.from)
     add(
-      `${date} >= CAST(:from AS timestamptz)`,
+      'date',
+      '>= CAST(:from AS timestamptz)',
       'from',
       startOfDay(filters.from),
     );
   if (filters.to)
-    add(`${date} < CAST(:to AS timestamptz)`, 'to', dayAfter(filters.to));
-  return { sql: parts.join(' AND '), replacements };
+    add('date', '< CAST(:to AS timestamptz)', 'to', dayAfter(filters.to));
+  return {
+    facts: facts.join(' AND '),
+    live: live.join(' AND '),
+    replacements,
+  };
 }
-
-const MATCHED_CONDITIONS = `
-  FROM studies s
-  JOIN study_conditions sc ON sc.study_id = s.id
-  JOIN condition_analyses ca ON ca.condition_id = sc.id AND ca.status = 'done'`;
 
 interface ListRow {
   condition_id: number;
@@ -252,24 +249,6 @@ interface FigureRow {
   basis: string;
 }
 
-interface AggregateRow {
-  grouping: number;
-  figure: FigureKey;
-  grid_id: number | null;
-  kvp: number | null;
-  room_id: number | null;
-  phantom_thickness_cm: number | null;
-  n: number;
-  mean: number;
-  sample_sd: number | null;
-  sum_wv: number | null;
-  sum_w: number | null;
-  min_ci_low: number;
-  max_ci_high: number;
-  above_one: number;
-  below_one: number;
-}
-
 const text = (value: unknown): string | null =>
   typeof value === 'string' ? value : null;
 
@@ -295,38 +274,57 @@ export function methodOf(
 
 async function listConditions(
   db: Sequelize,
+  source: string,
   where: Where,
-  dateSql: string,
   limit: number,
-): Promise<{ total: number; rows: ListRow[] }> {
-  const [countRow] = await db.query<{ total: number }>(
-    `SELECT count(*)::int AS total ${MATCHED_CONDITIONS} WHERE ${where.sql}`,
-    { type: QueryTypes.SELECT, replacements: where.replacements },
-  );
+): Promise<{ counts: CountRow; rows: ListRow[] }> {
+  const [[countRow], page] = await Promise.all([
+    db.query<CountRow>(
+      `SELECT count(*)::int AS total,
+              count(*) FILTER (WHERE f.sif_low > 1)::int AS sif_above,
+              count(*) FILTER (WHERE f.sif_high < 1)::int AS sif_below
+         FROM (${source}) f`,
+      { type: QueryTypes.SELECT, replacements: where.replacements },
+    ),
+    db.query<{ condition_id: number }>(
+      `SELECT f.condition_id FROM (${source}) f
+        ORDER BY f.study_date DESC, f.study_id DESC, f.position, f.condition_id
+        LIMIT :limit`,
+      {
+        type: QueryTypes.SELECT,
+        replacements: { ...where.replacements, limit },
+      },
+    ),
+  ]);
+  const counts = countRow ?? { total: 0, sif_above: 0, sif_below: 0 };
+  if (page.length === 0) return { counts, rows: [] };
   const rows = await db.query<ListRow>(
     `SELECT sc.id AS condition_id, ca.id AS analysis_id, s.id AS study_id,
             s.title AS study_title, s.status AS study_status, s.revision,
-            s.signed_at, u.display_name AS signed_by, ${dateSql} AS study_date,
+            s.signed_at, u.display_name AS signed_by,
+            COALESCE(s.signed_at, s.created_at) AS study_date,
             s.room_id, r.name AS room_name, s.detector_id, d.name AS detector_name,
             sc.grid_id, g.label AS grid_label, g.ratio AS grid_ratio,
             sc.kvp, sc.added_filtration, sc.hvl_mm_al, sc.phantom_thickness_cm,
             s.plan #>> '{phantom,material}' AS phantom_material,
             ca.verdict_outcome, ca.warnings,
-            COALESCE(ca.result -> 'method', ca.result #> '{figures,method}') AS method
-       ${MATCHED_CONDITIONS}
+            ca.result #> '{analysis,method}' AS method
+       FROM study_conditions sc
+       JOIN studies s ON s.id = sc.study_id
+       JOIN condition_analyses ca ON ca.condition_id = sc.id
        JOIN rooms r ON r.id = s.room_id
        JOIN grids g ON g.id = sc.grid_id
        LEFT JOIN detectors d ON d.id = s.detector_id
        LEFT JOIN users u ON u.id = s.signed_by
-      WHERE ${where.sql}
-      ORDER BY study_date DESC, s.id DESC, sc.position, sc.id
-      LIMIT :limit`,
+      WHERE sc.id IN (:ids)`,
     {
       type: QueryTypes.SELECT,
-      replacements: { ...where.replacements, limit },
+      replacements: { ids: page.map((p) => p.condition_id) },
     },
   );
-  return { total: countRow?.total ?? 0, rows };
+  const order = new Map(page.map((p, i) => [p.condition_id, i]));
+  rows.sort((a, b) => order.get(a.condition_id)! - order.get(b.condition_id)!);
+  return { counts, rows };
 }
 
 async function figuresOf(
@@ -360,90 +358,223 @@ async function figuresOf(
   return byAnalysis;
 }
 
-// GROUPING() bits, in the order of its arguments below: grid, kvp, room,
-// thickness; a set of bits means "not grouped by".
-const GROUPINGS: Record<number, AggregateGrouping> = {
-  0b0010: 'grid-thickness-kv',
-  0b1100: 'room-thickness',
-  0b0111: 'grid',
-  0b1111: 'figure',
-};
+/** Running sums of one figure over one group; all decomposable. */
+interface Sums {
+  n: number;
+  sum: number;
+  sumSquares: number;
+  sumWeights: number;
+  sumWeighted: number;
+  minLow: number;
+  maxHigh: number;
+  aboveOne: number;
+  belowOne: number;
+}
+
+const emptySums = (): Sums => ({
+  n: 0,
+  sum: 0,
+  sumSquares: 0,
+  sumWeights: 0,
+  sumWeighted: 0,
+  minLow: Infinity,
+  maxHigh: -Infinity,
+  aboveOne: 0,
+  belowOne: 0,
+});
+
+function addSums(into: Sums, from: Sums): void {
+  into.n += from.n;
+  into.sum += from.sum;
+  into.sumSquares += from.sumSquares;
+  into.sumWeights += from.sumWeights;
+  into.sumWeighted += from.sumWeighted;
+  into.minLow = Math.min(into.minLow, from.minLow);
+  into.maxHigh = Math.max(into.maxHigh, from.maxHigh);
+  into.aboveOne += from.aboveOne;
+  into.belowOne += from.belowOne;
+}
 
 /**
- * Aggregates in one scan with grouping sets. Per group: n, the plain mean
- * and sample SD, and the inverse-variance weighted mean
- * ȳ = Σ(yᵢ/uᵢ²)/Σ(1/uᵢ²) with u(ȳ) = 1/√Σ(1/uᵢ²); the interval is the
- * condition's own for n = 1, else ȳ ± 1.96·u(ȳ) (a fixed-effect pooled
- * estimate), or the envelope of the intervals when no figure has an SE.
+ * Per-group statistics from sums: n, the plain mean and sample SD, and the
+ * inverse-variance weighted mean ȳ = Σ(yᵢ/uᵢ²)/Σ(1/uᵢ²) with
+ * u(ȳ) = 1/√Σ(1/uᵢ²); the interval is the condition's own for n = 1, else
+ * ȳ ± 1.96·u(ȳ) (a fixed-effect pooled estimate), or the envelope of the
+ * intervals when no figure has an SE.
  * @see JCGM 100:2008 for u; Borenstein et al., Introduction to
  *   Meta-Analysis (2009) ch. 11, for the fixed-effect weighted mean.
  */
+function statistics(
+  s: Sums,
+): Pick<
+  BoardAggregate,
+  | 'n'
+  | 'mean'
+  | 'sampleSd'
+  | 'weightedMean'
+  | 'low'
+  | 'high'
+  | 'aboveOne'
+  | 'belowOne'
+> {
+  const mean = s.sum / s.n;
+  const single = s.n === 1;
+  const weighted =
+    !single && s.sumWeights > 0
+      ? { mean: s.sumWeighted / s.sumWeights, se: 1 / Math.sqrt(s.sumWeights) }
+      : null;
+  return {
+    n: s.n,
+    mean,
+    // Only figures the charts spread carry squares (NaN marks the others).
+    sampleSd:
+      single || Number.isNaN(s.sumSquares)
+        ? null
+        : Math.sqrt(
+            Math.max(0, (s.sumSquares - (s.sum * s.sum) / s.n) / (s.n - 1)),
+          ),
+    weightedMean: weighted ? weighted.mean : mean,
+    low: weighted ? weighted.mean - Z_95 * weighted.se : s.minLow,
+    high: weighted ? weighted.mean + Z_95 * weighted.se : s.maxHigh,
+    aboveOne: s.aboveOne,
+    belowOne: s.belowOne,
+  };
+}
+
+// The charted figures are summed at the finest grain (grid, kV, thickness,
+// room) with their spread; the other stated-value figures only per grid.
+// Two narrow scans run side by side rather than one wide one.
+const CHARTED = new Set(['sif', 'cif', 'bucky']);
+
+const sumsOf = (p: string, withSpread: boolean): string[] => [
+  `count(f.${p}_value)::int AS ${p}_n`,
+  `sum(f.${p}_value) AS ${p}_sum`,
+  `sum(f.${p}_weight) AS ${p}_w`,
+  `sum(f.${p}_value * f.${p}_weight) AS ${p}_wv`,
+  `min(f.${p}_low) AS ${p}_low`,
+  `max(f.${p}_high) AS ${p}_high`,
+  ...(withSpread ? [`sum(f.${p}_value * f.${p}_value) AS ${p}_sq`] : []),
+];
+
+const FINE_SUMS = FACT_FIGURES.filter(([p]) => CHARTED.has(p))
+  .flatMap(([p]) => sumsOf(p, true))
+  .join(',\n       ');
+const GRID_SUMS = FACT_FIGURES.filter(([p]) => !CHARTED.has(p))
+  .flatMap(([p]) => sumsOf(p, false))
+  .join(',\n       ');
+
+type SumsRow = Record<string, number | null> & {
+  grid_id: number;
+  kvp?: number;
+  phantom_thickness_cm?: number;
+  room_id?: number;
+};
+
+/** The count of matches and of SIF intervals wholly above or below 1. */
+interface CountRow {
+  total: number;
+  sif_above: number;
+  sif_below: number;
+}
+
+type GroupKey = Omit<BoardAggregate, keyof ReturnType<typeof statistics>>;
+
+function sumsFrom(row: SumsRow, p: string): Sums | null {
+  const n = row[`${p}_n`] ?? 0;
+  if (n === 0) return null;
+  return {
+    n,
+    sum: row[`${p}_sum`]!,
+    sumSquares: row[`${p}_sq`] ?? Number.NaN,
+    sumWeights: row[`${p}_w`] ?? 0,
+    sumWeighted: row[`${p}_wv`] ?? 0,
+    minLow: row[`${p}_low`]!,
+    maxHigh: row[`${p}_high`]!,
+    aboveOne: 0,
+    belowOne: 0,
+  };
+}
+
+/**
+ * Aggregates the matching conditions: the charted figures summed per
+ * (grid, kV, thickness, room) and rolled up in memory into the board's
+ * groupings (per grid, thickness and kV; per room and thickness; per grid;
+ * over all), the other figures summed per grid. Verdict counts (SIF
+ * intervals above or below 1) come with the total, see listConditions.
+ */
 async function aggregates(
   db: Sequelize,
+  source: string,
   where: Where,
 ): Promise<BoardAggregate[]> {
-  const rows = await db.query<AggregateRow>(
-    `SELECT GROUPING(sc.grid_id, sc.kvp, s.room_id, sc.phantom_thickness_cm)::int AS grouping,
-            cf.figure, sc.grid_id, sc.kvp, s.room_id, sc.phantom_thickness_cm,
-            count(*)::int AS n,
-            avg(cf.value) AS mean,
-            stddev_samp(cf.value) AS sample_sd,
-            sum(cf.value / (cf.standard_error * cf.standard_error))
-              FILTER (WHERE cf.standard_error > 0) AS sum_wv,
-            sum(1 / (cf.standard_error * cf.standard_error))
-              FILTER (WHERE cf.standard_error > 0) AS sum_w,
-            min(cf.ci_low) AS min_ci_low,
-            max(cf.ci_high) AS max_ci_high,
-            count(*) FILTER (WHERE cf.ci_low > 1)::int AS above_one,
-            count(*) FILTER (WHERE cf.ci_high < 1)::int AS below_one
-       ${MATCHED_CONDITIONS}
-       JOIN condition_figures cf ON cf.analysis_id = ca.id AND cf.figure IN (:figures)
-      WHERE ${where.sql}
-      GROUP BY GROUPING SETS (
-        (cf.figure, sc.grid_id, sc.phantom_thickness_cm, sc.kvp),
-        (cf.figure, s.room_id, sc.phantom_thickness_cm),
-        (cf.figure, sc.grid_id),
-        (cf.figure)
-      )`,
-    {
-      type: QueryTypes.SELECT,
-      replacements: { ...where.replacements, figures: AGGREGATED_FIGURES },
-    },
-  );
-  return rows.flatMap((row) => {
-    const grouping = GROUPINGS[row.grouping];
-    if (!grouping) return [];
-    const weighted =
-      row.sum_w !== null && row.sum_w > 0 && row.sum_wv !== null
-        ? { mean: row.sum_wv / row.sum_w, se: 1 / Math.sqrt(row.sum_w) }
-        : null;
-    const single = row.n === 1;
-    const weightedMean = weighted ? weighted.mean : row.mean;
-    return [
-      {
-        grouping,
-        figure: row.figure,
-        gridId: row.grid_id,
-        kvp: row.kvp,
-        roomId: row.room_id,
-        phantomThicknessCm: row.phantom_thickness_cm,
-        n: row.n,
-        mean: row.mean,
-        sampleSd: single ? null : row.sample_sd,
-        weightedMean: single ? row.mean : weightedMean,
-        low:
-          single || !weighted
-            ? row.min_ci_low
-            : weighted.mean - Z_95 * weighted.se,
-        high:
-          single || !weighted
-            ? row.max_ci_high
-            : weighted.mean + Z_95 * weighted.se,
-        aboveOne: row.above_one,
-        belowOne: row.below_one,
-      },
-    ];
-  });
+  const options = {
+    type: QueryTypes.SELECT,
+    replacements: where.replacements,
+  } as const;
+  const [fine, perGrid] = await Promise.all([
+    db.query<SumsRow>(
+      `SELECT f.grid_id, f.kvp, f.phantom_thickness_cm, f.room_id,
+       ${FINE_SUMS}
+         FROM (${source}) f
+        GROUP BY f.grid_id, f.kvp, f.phantom_thickness_cm, f.room_id`,
+      options,
+    ),
+    db.query<SumsRow>(
+      `SELECT f.grid_id,
+       ${GRID_SUMS}
+         FROM (${source}) f
+        GROUP BY f.grid_id`,
+      options,
+    ),
+  ]);
+  const groups = new Map<string, { key: GroupKey; sums: Sums }>();
+  const add = (key: GroupKey, sums: Sums) => {
+    const id = JSON.stringify(key);
+    const group = groups.get(id) ?? { key, sums: emptySums() };
+    addSums(group.sums, sums);
+    groups.set(id, group);
+  };
+  const none = {
+    gridId: null,
+    kvp: null,
+    roomId: null,
+    phantomThicknessCm: null,
+  };
+  for (const [p, figure] of FACT_FIGURES) {
+    const charted = CHARTED.has(p);
+    for (const row of charted ? fine : perGrid) {
+      const sums = sumsFrom(row, p);
+      if (!sums) continue;
+      add({ ...none, grouping: 'grid', figure, gridId: row.grid_id }, sums);
+      add({ ...none, grouping: 'figure', figure }, sums);
+      if (!charted) continue;
+      add(
+        {
+          ...none,
+          grouping: 'grid-thickness-kv',
+          figure,
+          gridId: row.grid_id,
+          kvp: row.kvp!,
+          phantomThicknessCm: row.phantom_thickness_cm!,
+        },
+        sums,
+      );
+      add(
+        {
+          ...none,
+          grouping: 'room-thickness',
+          figure,
+          roomId: row.room_id!,
+          phantomThicknessCm: row.phantom_thickness_cm!,
+        },
+        sums,
+      );
+    }
+  }
+  return [...groups.values()].map(({ key, sums }) => ({
+    ...key,
+    ...statistics(sums),
+  }));
 }
 
 async function namesOf(
@@ -461,7 +592,7 @@ async function namesOf(
     for (const row of rows) rooms.set(row.id, row.name);
   }
   if (gridIds.length > 0) {
-    const rows = await db.query<Record<string, unknown>>(
+    const rows = await db.query<BoardGrid>(
       `SELECT id, label, ratio, strip_frequency_per_cm AS "stripFrequencyPerCm",
               strip_height_um AS "stripHeightUm", interspace_width_um AS "interspaceWidthUm",
               strip_thickness_um AS "stripThicknessUm", strip_material AS "stripMaterial",
@@ -473,20 +604,20 @@ async function namesOf(
          FROM grids WHERE id IN (:ids)`,
       { type: QueryTypes.SELECT, replacements: { ids: gridIds } },
     );
-    for (const row of rows)
-      grids.set(row.id as number, row as unknown as BoardGrid);
+    for (const row of rows) grids.set(row.id, row);
   }
   return { rooms, grids };
 }
 
 /**
- * Runs the board's queries for a viewer's scope.
+ * Runs the board's queries for a viewer's scope: brings the signed facts
+ * up to date, then counts, lists and aggregates the matching conditions.
  * @param filters parsed filters.
  * @param statuses the study states the viewer may see (compare.policy.ts).
  * @param limit conditions listed at most; aggregates cover every match.
  * @param db the database (the app's by default; the bench passes its own).
- * @returns the matching count, the listed conditions with their figures,
- *   aggregates, and the names of rooms and grids they mention.
+ * @returns the matching count, the listed conditions (newest first) with
+ *   their figures, aggregates, and the names of rooms and grids they mention.
  */
 export async function queryCompareBoard(
   filters: BoardFilters,
@@ -494,11 +625,21 @@ export async function queryCompareBoard(
   limit: number,
   db: Sequelize = sequelize,
 ): Promise<BoardData> {
+  if (statuses.includes('signed')) await refreshBoardFacts(db);
   const where = boardWhere(filters, statuses);
-  const [{ total, rows }, aggregateRows] = await Promise.all([
-    listConditions(db, where, studyDateSql(statuses), limit),
-    aggregates(db, where),
+  const source = boardSource(statuses, where);
+  const [{ counts, rows }, aggregateRows] = await Promise.all([
+    listConditions(db, source, where, limit),
+    aggregates(db, source, where),
   ]);
+  const total = counts.total;
+  const sif = aggregateRows.find(
+    (a) => a.grouping === 'figure' && a.figure === 'snr_improvement_factor',
+  );
+  if (sif) {
+    sif.aboveOne = counts.sif_above;
+    sif.belowOne = counts.sif_below;
+  }
   const figures = await figuresOf(
     db,
     rows.map((row) => row.analysis_id),

@@ -58,7 +58,7 @@ export interface SeedCondition {
   figures: Partial<Record<FigureKey, SeedFigure>>;
   verdictOutcome?: GridVerdictOutcome | null;
   warnings?: Warning[];
-  /** Stored as the analysis result's `method`. */
+  /** Stored as the analysis result's `analysis.method`. */
   method?: Record<string, unknown>;
 }
 
@@ -115,17 +115,19 @@ export async function seedStudyWithResults(
     status === 'signed'
       ? (options.signedBy ?? (await buildUser({ role: 'physicist' })))
       : null;
+  // Created unsigned and signed at the end, as the review flow does, so a
+  // board reading meanwhile never sees a signed study without its figures.
   const study = await Study.create({
     roomId: room.id,
     detectorId: detector?.id ?? null,
     title: options.title ?? `Grid study ${tag()}`,
     purpose: 'Check what the grid buys at equal dose (test).',
-    status,
+    status: status === 'signed' ? 'submitted' : status,
     revision: options.revision ?? 1,
     plan: studyPlanSchema.parse(SMALL_PLAN),
     createdBy: creator.id,
-    signedBy: signer?.id ?? null,
-    signedAt: signer ? (options.signedAt ?? new Date()) : null,
+    signedBy: null,
+    signedAt: null,
     submittedAt: null,
     ...(options.createdAt ? { createdAt: options.createdAt } : {}),
   });
@@ -157,7 +159,10 @@ export async function seedStudyWithResults(
       conditionId: condition.id,
       status: 'done',
       options: {},
-      result: { method: seed.method ?? SEED_METHOD },
+      result: {
+        analysis: { method: seed.method ?? SEED_METHOD },
+        primaryObject: 'disc',
+      },
       verdictOutcome: seed.verdictOutcome ?? null,
       verdictSentence: null,
       warnings: seed.warnings ?? [],
@@ -187,6 +192,13 @@ export async function seedStudyWithResults(
     );
     conditions.push(condition);
     analyses.push(analysis);
+  }
+  if (signer) {
+    await study.update({
+      status: 'signed',
+      signedBy: signer.id,
+      signedAt: options.signedAt ?? new Date(),
+    });
   }
   return { study, room, grids, conditions, analyses, signer };
 }

@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sequelize } from '../../../server/db/sequelize.ts';
+import { ConditionFigure } from '../../../server/models/condition-figure.model.ts';
 import { presentCompareBoard } from '../../../server/presenters/compare.presenter.ts';
+import { boardSource } from '../../../server/services/compare-facts.service.ts';
 import {
   boardWhere,
   loadBoard,
@@ -241,11 +243,79 @@ describe('queryCompareBoard', () => {
   });
 });
 
-describe('boardWhere', () => {
-  it('always starts with the viewer’s study states', () => {
+describe('the signed facts behind the board', () => {
+  it('follow a study through revision and signing anew', async () => {
+    const room = await buildRoom();
+    const seeded = await seedStudyWithResults({
+      room,
+      conditions: [
+        {
+          kvp: 70,
+          phantomThicknessCm: 15,
+          figures: { snr_improvement_factor: { value: 1.1 } },
+        },
+      ],
+    });
+    const value = async () =>
+      (
+        await queryCompareBoard({ rooms: [room.id] }, ['signed'], 10)
+      ).conditions.map((c) => c.figures.snr_improvement_factor?.value);
+    expect(await value()).toEqual([1.1]);
+    await seeded.study.update({
+      status: 'draft',
+      revision: 2,
+      signedAt: null,
+      signedBy: null,
+    });
+    expect(await value()).toEqual([]);
+    await ConditionFigure.update(
+      { value: 1.4 },
+      {
+        where: {
+          analysisId: seeded.analyses[0]!.id,
+          figure: 'snr_improvement_factor',
+        },
+      },
+    );
+    await seeded.study.update({
+      status: 'signed',
+      signedAt: new Date(),
+      signedBy: seeded.signer!.id,
+    });
+    expect(await value()).toEqual([1.4]);
+    const board = await queryCompareBoard({ rooms: [room.id] }, ['signed'], 10);
+    expect(
+      board.aggregates.find(
+        (a) => a.grouping === 'figure' && a.figure === 'snr_improvement_factor',
+      )!.weightedMean,
+    ).toBe(1.4);
+  });
+});
+
+describe('boardSource', () => {
+  it('reads only the signed facts for a signed-only scope', () => {
     const where = boardWhere({ rooms: [1] }, ['signed']);
-    expect(where.sql.startsWith('s.status IN (:statuses)')).toBe(true);
-    expect(where.replacements.statuses).toEqual(['signed']);
+    const source = boardSource(['signed'], where);
+    expect(source).toContain(
+      'FROM board_facts WHERE TRUE AND room_id IN (:rooms)',
+    );
+    expect(source).not.toContain('FROM studies');
+    expect(where.replacements.unsigned).toEqual([]);
+  });
+
+  it('adds the unsigned studies, limited to their states, when asked', () => {
+    const statuses = ['draft', 'submitted', 'returned', 'signed'] as const;
+    const where = boardWhere({ rooms: [1] }, statuses);
+    const source = boardSource(statuses, where);
+    expect(source).toContain('UNION ALL');
+    expect(source).toContain(
+      's.status IN (:unsigned) AND TRUE AND s.room_id IN (:rooms)',
+    );
+    expect(where.replacements.unsigned).toEqual([
+      'draft',
+      'submitted',
+      'returned',
+    ]);
   });
 });
 
