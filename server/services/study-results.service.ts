@@ -33,6 +33,7 @@ import type { ImageStore } from './image-storage.service.ts';
 import { placedLayoutFor } from './image-region.service.ts';
 import { findStudyLayout } from './region-layout.service.ts';
 import { STUDY_AUDIT_TARGET } from './study.service.ts';
+import { isOpenForChanges } from '../../shared/studies/study-state.ts';
 
 /** What computing results needs from the outside world. */
 export interface ResultsDeps {
@@ -489,7 +490,8 @@ export interface RecomputeSummary {
  * engine's region_empty / region_invalid / analysis_failed …) and its old
  * figures are removed; the others go on. The progress is visible through
  * the rows' statuses (running while computed).
- * @returns the counts; zeros when the study no longer exists.
+ * @returns the counts; zeros when the study no longer exists or is
+ *   submitted or signed (its figures are what was reviewed).
  * @throws only for failures outside the analysis (database down).
  */
 export async function recomputeStudy(
@@ -498,7 +500,9 @@ export async function recomputeStudy(
 ): Promise<RecomputeSummary> {
   const summary = { studyId, done: 0, failed: 0 };
   const study = await Study.findByPk(studyId);
-  if (!study) return summary;
+  // A job queued while the study was open may run after it was submitted:
+  // the reviewed figures must stay as they were.
+  if (!study || !isOpenForChanges(study.status)) return summary;
   const startedFrom = await latestRequest(study.id);
   const sets = await conditionImageSets(study.id);
   const context = await loadContext(study, sets);

@@ -1,9 +1,11 @@
-import { Op, type Transaction } from 'sequelize';
+import { Op, QueryTypes, type Transaction } from 'sequelize';
 import {
   assertOpenForChanges,
   nextStatus,
 } from '../../shared/studies/study-state.ts';
 import type { StudySnapshot } from '../../shared/studies/study-dto.ts';
+import { DomainError } from '../../shared/errors.ts';
+import { sequelize } from '../db/sequelize.ts';
 import { notFound } from '../errors.ts';
 import type { Mailer, OutgoingMail } from '../mail/mailer.ts';
 import {
@@ -70,6 +72,33 @@ async function authorToTell(
 }
 
 /**
+ * A physicist must not review figures that a worker is still recomputing.
+ * Conditions with no images assigned have nothing to compute, so only
+ * those with images count.
+ * @throws DomainError conflict while any such condition is queued or running.
+ */
+async function refuseWhileResultsPending(
+  studyId: number,
+  transaction: Transaction,
+): Promise<void> {
+  const [row] = await sequelize.query<{ pending: string }>(
+    `SELECT count(*) AS pending
+       FROM condition_analyses a
+      WHERE a.study_id = :studyId
+        AND a.status IN ('queued', 'running')
+        AND EXISTS (SELECT 1 FROM image_assignments ia WHERE ia.condition_id = a.condition_id)`,
+    { replacements: { studyId }, type: QueryTypes.SELECT, transaction },
+  );
+  const pending = Number(row?.pending ?? 0);
+  if (pending > 0) {
+    throw new DomainError(
+      'conflict',
+      `The results of ${pending} condition(s) are still being computed. Submit the study when they are done.`,
+    );
+  }
+}
+
+/**
  * Submits a draft or returned study for review and tells every active
  * physicist but the submitter (one message, all of them as recipients).
  * @throws DomainError invalid_state_transition unless draft or returned.
@@ -81,6 +110,7 @@ export async function submitStudy(
 ): Promise<ReviewOutcome> {
   const { study, mail } = await withLockedStudy(studyId, async (s, t) => {
     s.status = nextStatus(s.status, 'submit');
+    await refuseWhileResultsPending(s.id, t);
     s.submittedAt = new Date();
     await s.save({ transaction: t });
     await recordAudit(

@@ -1,10 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent } from '../../../server/models/audit-event.model.ts';
+import { ConditionAnalysis } from '../../../server/models/condition-analysis.model.ts';
+import { ImageAssignment } from '../../../server/models/image-assignment.model.ts';
+import { StudyCondition } from '../../../server/models/study-condition.model.ts';
 import { StudyRevision } from '../../../server/models/study-revision.model.ts';
 import { buildUser } from '../../helpers/factories.ts';
 import { linkIn, waitForMail } from '../../helpers/mailbox.ts';
 import {
   buildGrid,
+  buildImageRow,
   buildRoom,
   SMALL_PLAN,
 } from '../../helpers/study-factories.ts';
@@ -312,5 +316,56 @@ describe('comments and the audit trail', () => {
     ]);
     const thread = await resident.agent.get(`/api/studies/${id}/comments`);
     expect(thread.body.data).toEqual([]);
+  });
+});
+
+describe('submitting while results are recomputed', () => {
+  it('answers 409 while a condition with images is queued, and submits once it is done', async () => {
+    const resident = await signedInAgent(t.app, 'resident');
+    const id = await draftBy(resident);
+    const conditions = await StudyCondition.findAll({ where: { studyId: id } });
+    const image = await buildImageRow({
+      uploadedBy: resident.user.id,
+      studyId: id,
+    });
+    await ImageAssignment.create({
+      imageId: image.id,
+      studyId: id,
+      conditionId: conditions[0]!.id,
+      arm: 'grid',
+      replicate: 1,
+      proposedBy: 'user',
+      reason: 'test',
+      assignedBy: resident.user.id,
+    });
+    const analysis = await ConditionAnalysis.create({
+      studyId: id,
+      conditionId: conditions[0]!.id,
+      status: 'queued',
+      options: {},
+      result: null,
+      verdictOutcome: null,
+      verdictSentence: null,
+      warnings: [],
+      errorCode: null,
+      errorMessage: null,
+      computedAt: null,
+    });
+
+    const refused = await resident.agent.post(`/api/studies/${id}/submit`);
+    expect(refused.status).toBe(409);
+    expect(refused.body.error).toEqual({
+      code: 'conflict',
+      message:
+        'The results of 1 condition(s) are still being computed. Submit the study when they are done.',
+    });
+    expect(
+      (await resident.agent.get(`/api/studies/${id}`)).body.data.status,
+    ).toBe('draft');
+
+    await analysis.update({ status: 'done' });
+    const submitted = await resident.agent.post(`/api/studies/${id}/submit`);
+    expect(submitted.status).toBe(200);
+    expect(submitted.body.data.status).toBe('submitted');
   });
 });
