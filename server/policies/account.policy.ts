@@ -4,6 +4,8 @@ import {
   type Actor,
 } from '../../shared/permissions.ts';
 import type { SessionDto } from '../../shared/schemas/auth.schema.ts';
+import { canEditEquipment } from './equipment.policy.ts';
+import { canCreateStudy, canSignStudies } from './study.policy.ts';
 
 /** May the actor list, invite and change users? */
 export const canAdministerUsers = (actor: Actor): boolean =>
@@ -22,8 +24,8 @@ export function sessionCapabilities(actor: Actor): SessionDto['can'] {
   return {
     manageUsers: canManageUsers(actor),
     readSentMail: canReadSentMail(actor),
-    editEquipment: actor.role === 'admin' || actor.role === 'physicist',
-    editStudies: actor.role === 'physicist' || actor.role === 'resident',
-    signStudies: actor.role === 'physicist',
+    editEquipment: canEditEquipment(actor),
+    editStudies: canCreateStudy(actor),
+    signStudies: canSignStudies(actor),
   };
 }

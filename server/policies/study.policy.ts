@@ -36,6 +36,10 @@ const preparesStudies = (actor: Actor): boolean =>
 /** May the actor start a study? */
 export const canCreateStudy = (actor: Actor): boolean => preparesStudies(actor);
 
+/** Does the actor's role let them return and sign studies at all? */
+export const canSignStudies = (actor: Actor): boolean =>
+  actor.role === 'physicist';
+
 /** May the actor see the study at all? */
 export const canViewStudy = (actor: Actor, study: StudyFacts): boolean =>
   actor.role === 'committee' ? study.status === 'signed' : true;
@@ -51,7 +55,7 @@ export const canSubmitStudy = (actor: Actor, study: StudyFacts): boolean =>
 
 /** May the actor return or sign the study (when its state allows)? */
 export const canReviewStudy = (actor: Actor, study: StudyFacts): boolean =>
-  actor.role === 'physicist' && canViewStudy(actor, study);
+  canSignStudies(actor) && canViewStudy(actor, study);
 
 /** May the actor write in the study's thread (when its state allows)? */
 export const canCommentOnStudy = (actor: Actor, study: StudyFacts): boolean =>
