@@ -45,14 +45,27 @@ export interface CalibrationResult {
   choice: 'requested' | 'best R²';
 }
 
-const MODEL_FUNCTIONS: Record<
-  CalibrationModel,
-  (a: number, b: number, k: number) => number
-> = {
-  linear: (a, b, k) => a + b * k,
-  logarithmic: (a, b, k) => a + b * Math.log(k),
-  power: (a, b, k) => a * k ** b,
-};
+/**
+ * Pixel value PV(K) of a fitted model at detector air kerma K:
+ * linear a + b·K; logarithmic a + b·ln(K / 1 µGy); power a·(K / 1 µGy)^b.
+ * @param airKermaUgy detector air kerma in µGy (> 0 for logarithmic and power).
+ * @returns the mean pixel value (stored values); NaN or ±Infinity where the
+ *   model is undefined (K ≤ 0 for logarithmic, K < 0 with a fractional power).
+ * @see PHYSICS.md §4 (model forms).
+ */
+export function calibrationForward(
+  fit: Pick<CalibrationFit, 'model' | 'a' | 'b'>,
+  airKermaUgy: number,
+): number {
+  switch (fit.model) {
+    case 'linear':
+      return fit.a + fit.b * airKermaUgy;
+    case 'logarithmic':
+      return fit.a + fit.b * Math.log(airKermaUgy);
+    case 'power':
+      return fit.a * airKermaUgy ** fit.b;
+  }
+}
 
 /** Ordinary least squares of y on x: [intercept, slope]. */
 function straightLine(x: number[], y: number[]): [number, number] {
@@ -75,9 +88,9 @@ function describe(
   b: number,
   points: readonly CalibrationPoint[],
 ): CalibrationFit {
-  const f = MODEL_FUNCTIONS[model];
   const residuals = points.map(
-    (p) => p.meanPixelValue - f(a, b, p.airKermaUgy),
+    (p) =>
+      p.meanPixelValue - calibrationForward({ model, a, b }, p.airKermaUgy),
   );
   const mean = points.reduce((s, p) => s + p.meanPixelValue, 0) / points.length;
   const ssTot = points.reduce((s, p) => s + (p.meanPixelValue - mean) ** 2, 0);

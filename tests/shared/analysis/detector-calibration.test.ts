@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   airKermaFromPixelValue,
+  calibrationForward,
   calibrationLookupTable,
   fitDetectorCalibration,
 } from '../../../shared/analysis/detector-calibration.ts';
@@ -110,6 +111,24 @@ describe('detector calibration fits', () => {
       );
     }
   });
+
+  it.each([
+    // Worked by hand from the model forms in PHYSICS.md §4.
+    ['linear', 100, 250, 2, 600],
+    ['logarithmic', 2000, 450, Math.E, 2450],
+    ['power', 300, 0.5, 4, 600],
+  ] as const)(
+    'evaluates the %s model forward and inverts back to the same air kerma',
+    (model, a, b, airKermaUgy, pixelValue) => {
+      const fit = { model, a, b, rSquared: 1, residuals: [], residualSd: 0 };
+
+      expect(calibrationForward(fit, airKermaUgy)).toBeCloseTo(pixelValue, 10);
+      expect(airKermaFromPixelValue(fit, pixelValue)).toBeCloseTo(
+        airKermaUgy,
+        10,
+      );
+    },
+  );
 
   it('handles signed ranges and negative slopes (sign −1 data)', () => {
     const fit = fitDetectorCalibration(points((k) => 3000 - 200 * k)).chosen;

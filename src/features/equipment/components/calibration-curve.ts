@@ -1,7 +1,8 @@
-import type {
-  CalibrationFit,
-  CalibrationModel,
-  CalibrationPoint,
+import {
+  calibrationForward,
+  type CalibrationFit,
+  type CalibrationModel,
+  type CalibrationPoint,
 } from '../../../../shared/analysis/detector-calibration.ts';
 import { formatNumber } from './format.ts';
 
@@ -28,17 +29,6 @@ export function modelEquation(
   }
 }
 
-// The forward forms of shared/analysis/detector-calibration.ts, evaluated
-// only to draw the fitted curve.
-const FORWARD: Record<
-  CalibrationModel,
-  (a: number, b: number, k: number) => number
-> = {
-  linear: (a, b, k) => a + b * k,
-  logarithmic: (a, b, k) => a + b * Math.log(k),
-  power: (a, b, k) => a * k ** b,
-};
-
 /** Points along the fitted curve across the measured air kerma range (µGy). */
 export function fittedCurve(
   fit: Pick<CalibrationFit, 'model' | 'a' | 'b'>,
@@ -52,7 +42,7 @@ export function fittedCurve(
     const airKermaUgy = low + ((high - low) * i) / (samples - 1);
     return {
       airKermaUgy,
-      meanPixelValue: FORWARD[fit.model](fit.a, fit.b, airKermaUgy),
+      meanPixelValue: calibrationForward(fit, airKermaUgy),
     };
   }).filter((p) => Number.isFinite(p.meanPixelValue));
 }
