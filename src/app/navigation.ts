@@ -18,5 +18,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/images/upload', label: 'Upload', isShown: (s) => s.can.editStudies },
   { to: '/equipment', label: 'Equipment', isShown: always },
   { to: '/geometry', label: 'Geometry', isShown: always },
+  { to: '/compare', label: 'Compare', isShown: always },
+  { to: '/rooms', label: 'Rooms', isShown: always },
   { to: '/account', label: 'Account', isShown: always },
 ];

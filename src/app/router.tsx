@@ -109,6 +109,18 @@ const router = createBrowserRouter([
         path: 'equipment/detectors/:id',
         element: page(() => import('./routes/equipment-detector-page.tsx')),
       },
+      {
+        path: 'compare',
+        element: page(() => import('./routes/compare-page.tsx')),
+      },
+      {
+        path: 'rooms',
+        element: page(() => import('./routes/room-summary-page.tsx')),
+      },
+      {
+        path: 'rooms/:id/trend',
+        element: page(() => import('./routes/room-trend-page.tsx')),
+      },
       { path: '*', element: page(() => import('./routes/not-found-page.tsx')) },
     ],
   },

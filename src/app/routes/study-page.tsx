@@ -19,6 +19,7 @@ import { AuditTrail } from '../../features/review/components/audit-trail.tsx';
 import { CommentThread } from '../../features/review/components/comment-thread.tsx';
 import { ReviewPanel } from '../../features/review/components/review-panel.tsx';
 import { RevisionList } from '../../features/review/components/revision-list.tsx';
+import { StudyReportLinks } from '../../features/compare/components/study-report-links.tsx';
 import { useChecklist, useStudy } from '../../features/studies/api/studies.ts';
 import { studyKeys } from '../../features/studies/api/study-keys.ts';
 import { ExpectedAcquisitionsTable } from '../../features/studies/components/expected-acquisitions-table.tsx';
@@ -127,6 +128,7 @@ export default function StudyPage() {
             >
               Results
             </Link>
+            <StudyReportLinks studyId={id} isSigned={s.status === 'signed'} />
             <Link
               to={`/studies/${id}/checklist`}
               className="rounded-lg px-3 py-2 text-lamina-800 ring-1 ring-lamina-300 hover:bg-lamina-50"
