@@ -96,6 +96,30 @@ const TUBE_OUTPUT_AT_80_KV_UGY_PER_MAS = 50;
 /** AEC reproducibility between replicates (within 1 %, so no warning). */
 const REPLICATE_EXPOSURE_FACTORS = [1, 1.004, 0.997, 1.002];
 
+/** Tube output at 1 m, µGy/mAs: the 80 kV figure scaled as kV² (invented). */
+const tubeOutputAt1mUgyPerMas = (kvp: number): number =>
+  TUBE_OUTPUT_AT_80_KV_UGY_PER_MAS * (kvp / 80) ** 2;
+
+/** How most demo sessions are taken: 3 replicates, 8×8 bins, AEC at 2.5 µGy. */
+const USUAL_SESSION = {
+  replicates: 3,
+  binning: 8,
+  targetKermaUgy: 2.5,
+} satisfies Partial<DemoStudySpec>;
+
+/** The bedside set-up, shared by the signed mobile study and its repeat. */
+const BEDSIDE_SESSION = {
+  room: 'mobile',
+  grid: DEMO_STUDY_GRID.mobile,
+  stationName: 'SGH-MOB1',
+  kvps: [70, 90],
+  thicknessesCm: [15, 20],
+  sidCm: 100,
+  field: { widthCm: 30, heightCm: 35 },
+  scatterToPrimaryRatioAt80Kv: { 15: 3.0, 20: 4.3 },
+  ...USUAL_SESSION,
+} satisfies Partial<DemoStudySpec>;
+
 /**
  * The studies the seed creates: a signed study per room spanning 60–120 kV
  * and 10–25 cm PMMA across the rooms, one submitted and one draft.
@@ -115,10 +139,8 @@ export const DEMO_STUDIES: readonly DemoStudySpec[] = [
     thicknessesCm: [20, 25],
     sidCm: 150,
     field: { widthCm: 35, heightCm: 35 },
-    replicates: 3,
     scatterToPrimaryRatioAt80Kv: { 20: 4.4, 25: 5.8 },
-    binning: 8,
-    targetKermaUgy: 2.5,
+    ...USUAL_SESSION,
     noGridShiftPx: { dx: 4, dy: -3 },
   },
   {
@@ -135,10 +157,8 @@ export const DEMO_STUDIES: readonly DemoStudySpec[] = [
     thicknessesCm: [15, 20],
     sidCm: 110,
     field: { widthCm: 30, heightCm: 30 },
-    replicates: 3,
     scatterToPrimaryRatioAt80Kv: { 15: 2.7, 20: 3.9 },
-    binning: 8,
-    targetKermaUgy: 2.5,
+    ...USUAL_SESSION,
     noGridShiftPx: { dx: 6, dy: -5 },
   },
   {
@@ -155,30 +175,20 @@ export const DEMO_STUDIES: readonly DemoStudySpec[] = [
     thicknessesCm: [10, 15],
     sidCm: 110,
     field: { widthCm: 13, heightCm: 13 },
-    replicates: 3,
     scatterToPrimaryRatioAt80Kv: { 10: 0.42, 15: 0.85 },
+    ...USUAL_SESSION,
     binning: 5,
     targetKermaUgy: 2,
     noGridShiftPx: { dx: 0, dy: 0 },
   },
   {
     key: 'mobile',
-    room: 'mobile',
-    grid: DEMO_STUDY_GRID.mobile,
     stage: 'signed',
     title: 'Clip-on 6:1 grid for bedside chest and abdomen',
     purpose:
       'Is the low-ratio clip-on grid worth carrying on the wards? Bedside geometry at 100 cm, 15 and 20 cm PMMA, 70 and 90 kV.',
     sessionDate: '2026-11-23',
-    stationName: 'SGH-MOB1',
-    kvps: [70, 90],
-    thicknessesCm: [15, 20],
-    sidCm: 100,
-    field: { widthCm: 30, heightCm: 35 },
-    replicates: 3,
-    scatterToPrimaryRatioAt80Kv: { 15: 3.0, 20: 4.3 },
-    binning: 8,
-    targetKermaUgy: 2.5,
+    ...BEDSIDE_SESSION,
     noGridShiftPx: { dx: -3, dy: 2 },
   },
   {
@@ -195,30 +205,18 @@ export const DEMO_STUDIES: readonly DemoStudySpec[] = [
     thicknessesCm: [15, 20],
     sidCm: 180,
     field: { widthCm: 35, heightCm: 35 },
-    replicates: 3,
     scatterToPrimaryRatioAt80Kv: { 15: 3.1, 20: 4.4 },
-    binning: 8,
-    targetKermaUgy: 2.5,
+    ...USUAL_SESSION,
     noGridShiftPx: { dx: 2, dy: 2 },
   },
   {
     key: 'bedsideDraft',
-    room: 'mobile',
-    grid: DEMO_STUDY_GRID.mobile,
     stage: 'draft',
     title: 'Clip-on 6:1 grid on the second mobile panel',
     purpose:
       'Repeat of the bedside grid check with the spare mobile panel: session uploaded, to be paired and measured.',
     sessionDate: '2026-11-30',
-    stationName: 'SGH-MOB1',
-    kvps: [70, 90],
-    thicknessesCm: [15, 20],
-    sidCm: 100,
-    field: { widthCm: 30, heightCm: 35 },
-    replicates: 3,
-    scatterToPrimaryRatioAt80Kv: { 15: 3.0, 20: 4.3 },
-    binning: 8,
-    targetKermaUgy: 2.5,
+    ...BEDSIDE_SESSION,
     noGridShiftPx: { dx: 3, dy: 0 },
   },
 ];
@@ -309,7 +307,7 @@ function demoConditionPhysics(
     'aluminium',
     DEMO_DISC.thicknessMm / 10,
   );
-  const outputAt1m = TUBE_OUTPUT_AT_80_KV_UGY_PER_MAS * (kvp / 80) ** 2;
+  const outputAt1m = tubeOutputAt1mUgyPerMas(kvp);
   return {
     primaryTransmission: grid.statedTp! * (1 + 0.0015 * (kvp - 100)),
     scatterTransmission: grid.statedTs! * (kvp / 100) ** 0.7,
@@ -349,7 +347,7 @@ function newSession(
   );
   const fieldAt1mCm2 =
     study.field.widthCm * study.field.heightCm * (100 / study.sidCm) ** 2;
-  const outputAt1m = TUBE_OUTPUT_AT_80_KV_UGY_PER_MAS * (kvp / 80) ** 2;
+  const outputAt1m = tubeOutputAt1mUgyPerMas(kvp);
   const entranceCm = study.sidCm - thicknessCm - 5;
   return {
     kvp,
