@@ -1,98 +1,22 @@
 import type { DataSet } from 'dicom-parser';
+import type {
+  AcquisitionDto,
+  SpacingMmDto,
+} from '../../shared/schemas/image.schema.ts';
 import type { Warning } from '../../shared/warnings.ts';
 import { numericValues, stringValue, stringValues } from './dicom-values.ts';
 
-/** A row × column spacing pair in mm, as DICOM stores it (row spacing first). */
-export interface SpacingMm {
-  rowMm: number;
-  columnMm: number;
-}
-
 /**
- * Acquisition facts of a projection radiograph (PHYSICS.md §9), typed and in
- * the units their names carry; null when the file does not say.
+ * Acquisition facts of a projection radiograph (PHYSICS.md §9) as the file
+ * gives them: the fields the client sees, plus the file's identifiers.
  */
-export interface Acquisition {
-  /** Peak tube voltage, kV (KVP 0018,0060). */
-  kvp: number | null;
-  /** Tube current–time product, mAs, from the most precise attribute present. */
-  exposureMas: number | null;
+export interface Acquisition extends AcquisitionDto {
   /** Which attribute gave exposureMas: µAs (0018,1153), mAs (0018,1152) or current × time. */
   exposureMasSource: 'ExposureInuAs' | 'Exposure' | 'CurrentTime' | null;
-  /** Tube current, mA (0018,8151 in µA preferred over 0018,1151 in mA). */
-  tubeCurrentMa: number | null;
-  /** Exposure time, ms (0018,8150 in µs preferred over 0018,1150 in ms). */
-  exposureTimeMs: number | null;
-  /** Distance Source to Detector (0018,1110), mm. */
-  sidMm: number | null;
-  /** Distance Source to Patient (0018,1111), mm. */
-  sourceToPatientMm: number | null;
-  /**
-   * Image and Fluoroscopy Area Dose Product (0018,115E) in dGy·cm², the unit
-   * DICOM PS3.3 defines for it (1 dGy·cm² = 0.1 Gy·cm² = 100 mGy·cm²).
-   */
-  dapDgyCm2: number | null;
-  /** Entrance Dose in mGy (0040,8302). */
-  entranceDoseMgy: number | null;
-  /** Filter Material (0018,7050), one value per filter. */
-  filterMaterial: string[] | null;
-  /** Filter Thickness Minimum (0018,7052), mm, one value per filter. */
-  filterThicknessMinMm: number[] | null;
-  /** Filter Thickness Maximum (0018,7054), mm, one value per filter. */
-  filterThicknessMaxMm: number[] | null;
-  /** Grid (0018,1166): FIXED, FOCUSED, RECIPROCATING, PARALLEL, CROSSED, NONE. */
-  grid: string[] | null;
-  gridAbsorbingMaterial: string | null;
-  gridSpacingMaterial: string | null;
-  /** Grid Thickness (0018,7042), mm. */
-  gridThicknessMm: number | null;
-  /** Grid Pitch (0018,7044), mm (strip frequency = 10 / pitch lines per cm). */
-  gridPitchMm: number | null;
-  /** Grid Aspect Ratio (0018,7046), the integer pair as stored. */
-  gridAspectRatio: [number, number] | null;
-  /** Grid Period (0018,7048): reciprocation time in ms, not the pitch. */
-  gridPeriodMs: number | null;
-  /** Grid Focal Distance (0018,704C), mm. */
-  gridFocalDistanceMm: number | null;
-  /** Grid ID (0018,1006). */
-  gridId: string | null;
-  /** Exposure Index (0018,1411), IEC 62494-1. */
-  exposureIndex: number | null;
-  targetExposureIndex: number | null;
-  deviationIndex: number | null;
-  relativeXRayExposure: number | null;
-  sensitivity: number | null;
-  detectorId: string | null;
-  detectorType: string | null;
-  /** Imager Pixel Spacing (0018,1164): at the detector plane. */
-  imagerPixelSpacingMm: SpacingMm | null;
-  /** Pixel Spacing (0028,0030): in the patient plane when calibrated. */
-  pixelSpacingMm: SpacingMm | null;
-  stationName: string | null;
-  deviceSerialNumber: string | null;
-  manufacturer: string | null;
-  manufacturerModelName: string | null;
-  /** Body Part Thickness (0018,11A0), mm. */
-  bodyPartThicknessMm: number | null;
-  bodyPartExamined: string | null;
-  viewPosition: string | null;
-  /** FOR PROCESSING or FOR PRESENTATION (0008,0068). */
-  presentationIntentType: string | null;
-  /** LIN or LOG (0028,1040). */
-  pixelIntensityRelationship: string | null;
-  /** +1 or −1 (0028,1041). */
-  pixelIntensityRelationshipSign: number | null;
-  /** "00" or "01" (0028,2110). */
-  lossyImageCompression: string | null;
-  lossyImageCompressionRatio: number[] | null;
-  lossyImageCompressionMethod: string[] | null;
-  modality: string | null;
   sopInstanceUid: string | null;
   sopClassUid: string | null;
   studyInstanceUid: string | null;
   seriesInstanceUid: string | null;
-  /** ISO 8601 local date-time (no zone unless the file gives one). */
-  acquisitionDateTime: string | null;
 }
 
 /** ISO 8601 text from DICOM DA (YYYYMMDD) and TM (HHMMSS.FFFFFF) values. */
@@ -143,7 +67,7 @@ export function readAcquisition(ds: DataSet): {
     const values = stringValues(ds, tag).filter((v) => v !== '');
     return values.length > 0 ? values : null;
   };
-  const spacing = (tag: string, keyword: string): SpacingMm | null => {
+  const spacing = (tag: string, keyword: string): SpacingMmDto | null => {
     const values = numbers(tag, keyword);
     if (!values) return null;
     const [rowMm, columnMm] = values;
