@@ -277,27 +277,17 @@ async function listConditions(
   source: string,
   where: Where,
   limit: number,
-): Promise<{ counts: CountRow; rows: ListRow[] }> {
-  const [[countRow], page] = await Promise.all([
-    db.query<CountRow>(
-      `SELECT count(*)::int AS total,
-              count(*) FILTER (WHERE f.sif_low > 1)::int AS sif_above,
-              count(*) FILTER (WHERE f.sif_high < 1)::int AS sif_below
-         FROM (${source}) f`,
-      { type: QueryTypes.SELECT, replacements: where.replacements },
-    ),
-    db.query<{ condition_id: number }>(
-      `SELECT f.condition_id FROM (${source}) f
-        ORDER BY f.study_date DESC, f.study_id DESC, f.position, f.condition_id
-        LIMIT :limit`,
-      {
-        type: QueryTypes.SELECT,
-        replacements: { ...where.replacements, limit },
-      },
-    ),
-  ]);
-  const counts = countRow ?? { total: 0, sif_above: 0, sif_below: 0 };
-  if (page.length === 0) return { counts, rows: [] };
+): Promise<ListRow[]> {
+  const page = await db.query<{ condition_id: number }>(
+    `SELECT f.condition_id FROM (${source}) f
+      ORDER BY f.study_date DESC, f.study_id DESC, f.position, f.condition_id
+      LIMIT :limit`,
+    {
+      type: QueryTypes.SELECT,
+      replacements: { ...where.replacements, limit },
+    },
+  );
+  if (page.length === 0) return [];
   const rows = await db.query<ListRow>(
     `SELECT sc.id AS condition_id, ca.id AS analysis_id, s.id AS study_id,
             s.title AS study_title, s.status AS study_status, s.revision,
@@ -324,7 +314,7 @@ async function listConditions(
   );
   const order = new Map(page.map((p, i) => [p.condition_id, i]));
   rows.sort((a, b) => order.get(a.condition_id)! - order.get(b.condition_id)!);
-  return { counts, rows };
+  return rows;
 }
 
 async function figuresOf(
@@ -441,41 +431,30 @@ function statistics(
   };
 }
 
-// The charted figures are summed at the finest grain (grid, kV, thickness,
-// room) with their spread; the other stated-value figures only per grid.
-// Two narrow scans run side by side rather than one wide one.
-const CHARTED = new Set(['sif', 'cif', 'bucky']);
+// Charts show a spread (sample SD) for these; only the SIF decides verdicts.
+const WITH_SPREAD = new Set(['sif', 'cif', 'bucky']);
 
-const sumsOf = (p: string, withSpread: boolean): string[] => [
+const FINE_SUMS = FACT_FIGURES.flatMap(([p]) => [
   `count(f.${p}_value)::int AS ${p}_n`,
   `sum(f.${p}_value) AS ${p}_sum`,
   `sum(f.${p}_weight) AS ${p}_w`,
   `sum(f.${p}_value * f.${p}_weight) AS ${p}_wv`,
   `min(f.${p}_low) AS ${p}_low`,
   `max(f.${p}_high) AS ${p}_high`,
-  ...(withSpread ? [`sum(f.${p}_value * f.${p}_value) AS ${p}_sq`] : []),
-];
-
-const FINE_SUMS = FACT_FIGURES.filter(([p]) => CHARTED.has(p))
-  .flatMap(([p]) => sumsOf(p, true))
-  .join(',\n       ');
-const GRID_SUMS = FACT_FIGURES.filter(([p]) => !CHARTED.has(p))
-  .flatMap(([p]) => sumsOf(p, false))
-  .join(',\n       ');
+  ...(WITH_SPREAD.has(p)
+    ? [`sum(f.${p}_value * f.${p}_value) AS ${p}_sq`]
+    : []),
+]).join(',\n       ');
 
 type SumsRow = Record<string, number | null> & {
   grid_id: number;
-  kvp?: number;
-  phantom_thickness_cm?: number;
-  room_id?: number;
-};
-
-/** The count of matches and of SIF intervals wholly above or below 1. */
-interface CountRow {
-  total: number;
+  kvp: number;
+  phantom_thickness_cm: number;
+  room_id: number;
+  conditions: number;
   sif_above: number;
   sif_below: number;
-}
+};
 
 type GroupKey = Omit<BoardAggregate, keyof ReturnType<typeof statistics>>;
 
@@ -490,49 +469,44 @@ function sumsFrom(row: SumsRow, p: string): Sums | null {
     sumWeighted: row[`${p}_wv`] ?? 0,
     minLow: row[`${p}_low`]!,
     maxHigh: row[`${p}_high`]!,
-    aboveOne: 0,
-    belowOne: 0,
+    aboveOne: p === 'sif' ? row.sif_above : 0,
+    belowOne: p === 'sif' ? row.sif_below : 0,
   };
 }
 
 /**
- * Aggregates the matching conditions: the charted figures summed per
- * (grid, kV, thickness, room) and rolled up in memory into the board's
- * groupings (per grid, thickness and kV; per room and thickness; per grid;
- * over all), the other figures summed per grid. Verdict counts (SIF
- * intervals above or below 1) come with the total, see listConditions.
+ * Counts and aggregates the matching conditions in one scan at the finest
+ * grain (grid, kV, thickness, room), then rolls the sums up in memory into
+ * the board's groupings: per grid, thickness and kV; per room and
+ * thickness; per grid; and over all. One wide scan costs less than several
+ * narrow ones.
+ * @returns the aggregates and the number of matching conditions.
  */
 async function aggregates(
   db: Sequelize,
   source: string,
   where: Where,
-): Promise<BoardAggregate[]> {
-  const options = {
-    type: QueryTypes.SELECT,
-    replacements: where.replacements,
-  } as const;
-  const [fine, perGrid] = await Promise.all([
-    db.query<SumsRow>(
-      `SELECT f.grid_id, f.kvp, f.phantom_thickness_cm, f.room_id,
+): Promise<{ total: number; aggregates: BoardAggregate[] }> {
+  const fine = await db.query<SumsRow>(
+    `SELECT f.grid_id, f.kvp, f.phantom_thickness_cm, f.room_id,
+       count(*)::int AS conditions,
+       count(*) FILTER (WHERE f.sif_low > 1)::int AS sif_above,
+       count(*) FILTER (WHERE f.sif_high < 1)::int AS sif_below,
        ${FINE_SUMS}
-         FROM (${source}) f
-        GROUP BY f.grid_id, f.kvp, f.phantom_thickness_cm, f.room_id`,
-      options,
-    ),
-    db.query<SumsRow>(
-      `SELECT f.grid_id,
-       ${GRID_SUMS}
-         FROM (${source}) f
-        GROUP BY f.grid_id`,
-      options,
-    ),
-  ]);
+       FROM (${source}) f
+      GROUP BY f.grid_id, f.kvp, f.phantom_thickness_cm, f.room_id`,
+    { type: QueryTypes.SELECT, replacements: where.replacements },
+  );
   const groups = new Map<string, { key: GroupKey; sums: Sums }>();
-  const add = (key: GroupKey, sums: Sums) => {
-    const id = JSON.stringify(key);
-    const group = groups.get(id) ?? { key, sums: emptySums() };
+  // Keys are built as text and the key object only for a new group: the
+  // roll-up visits every fine row four times per figure.
+  const add = (id: string, makeKey: () => GroupKey, sums: Sums) => {
+    let group = groups.get(id);
+    if (!group) {
+      group = { key: makeKey(), sums: emptySums() };
+      groups.set(id, group);
+    }
     addSums(group.sums, sums);
-    groups.set(id, group);
   };
   const none = {
     gridId: null,
@@ -540,41 +514,52 @@ async function aggregates(
     roomId: null,
     phantomThicknessCm: null,
   };
-  for (const [p, figure] of FACT_FIGURES) {
-    const charted = CHARTED.has(p);
-    for (const row of charted ? fine : perGrid) {
+  let total = 0;
+  for (const row of fine) {
+    total += row.conditions;
+    const { grid_id: gridId, kvp, room_id: roomId } = row;
+    const thickness = row.phantom_thickness_cm;
+    for (const [p, figure] of FACT_FIGURES) {
       const sums = sumsFrom(row, p);
       if (!sums) continue;
-      add({ ...none, grouping: 'grid', figure, gridId: row.grid_id }, sums);
-      add({ ...none, grouping: 'figure', figure }, sums);
-      if (!charted) continue;
+      add(`f|${p}`, () => ({ ...none, grouping: 'figure', figure }), sums);
       add(
-        {
-          ...none,
-          grouping: 'grid-thickness-kv',
-          figure,
-          gridId: row.grid_id,
-          kvp: row.kvp!,
-          phantomThicknessCm: row.phantom_thickness_cm!,
-        },
+        `g|${p}|${gridId}`,
+        () => ({ ...none, grouping: 'grid', figure, gridId }),
         sums,
       );
       add(
-        {
+        `gtk|${p}|${gridId}|${thickness}|${kvp}`,
+        () => ({
+          ...none,
+          grouping: 'grid-thickness-kv',
+          figure,
+          gridId,
+          kvp,
+          phantomThicknessCm: thickness,
+        }),
+        sums,
+      );
+      add(
+        `rt|${p}|${roomId}|${thickness}`,
+        () => ({
           ...none,
           grouping: 'room-thickness',
           figure,
-          roomId: row.room_id!,
-          phantomThicknessCm: row.phantom_thickness_cm!,
-        },
+          roomId,
+          phantomThicknessCm: thickness,
+        }),
         sums,
       );
     }
   }
-  return [...groups.values()].map(({ key, sums }) => ({
-    ...key,
-    ...statistics(sums),
-  }));
+  return {
+    total,
+    aggregates: [...groups.values()].map(({ key, sums }) => ({
+      ...key,
+      ...statistics(sums),
+    })),
+  };
 }
 
 async function namesOf(
@@ -628,18 +613,10 @@ export async function queryCompareBoard(
   if (statuses.includes('signed')) await refreshBoardFacts(db);
   const where = boardWhere(filters, statuses);
   const source = boardSource(statuses, where);
-  const [{ counts, rows }, aggregateRows] = await Promise.all([
+  const [rows, { total, aggregates: aggregateRows }] = await Promise.all([
     listConditions(db, source, where, limit),
     aggregates(db, source, where),
   ]);
-  const total = counts.total;
-  const sif = aggregateRows.find(
-    (a) => a.grouping === 'figure' && a.figure === 'snr_improvement_factor',
-  );
-  if (sif) {
-    sif.aboveOne = counts.sif_above;
-    sif.belowOne = counts.sif_below;
-  }
   const figures = await figuresOf(
     db,
     rows.map((row) => row.analysis_id),

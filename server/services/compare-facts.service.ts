@@ -72,14 +72,39 @@ function livePivot(where: string, dateSql: string): string {
 const REFRESH_LOCK = 61_270_113;
 const ANALYZE_AFTER_STUDIES = 200;
 
+// The signed studies as last seen by this process, per database: when
+// nothing about them changed, the refresh is skipped. Signing, revising,
+// re-signing and deleting each change the count, the latest update or the
+// sum of revisions.
+const lastSeen = new WeakMap<Sequelize, string>();
+
+async function signedSignature(db: Sequelize): Promise<string> {
+  const [row] = await db.query<Record<string, unknown>>(
+    `SELECT count(*)::int AS studies, max(updated_at) AS latest,
+            sum(revision)::bigint AS revisions
+       FROM studies WHERE status = 'signed'`,
+    { type: QueryTypes.SELECT },
+  );
+  return JSON.stringify(row);
+}
+
 /**
  * Brings `board_facts` in step with the signed studies: drops the rows of
  * studies no longer signed (or revised, or signed anew), then takes the
- * rows of signed studies not yet held. With nothing to do it costs two
- * index scans over `studies`.
+ * rows of signed studies not yet held. Skipped, after one look at
+ * `studies`, when the signed studies have not changed since the last
+ * refresh in this process.
  * @returns how many studies' rows were taken.
  */
 export async function refreshBoardFacts(db: Sequelize): Promise<number> {
+  const signature = await signedSignature(db);
+  if (lastSeen.get(db) === signature) return 0;
+  const added = await takeSignedStudies(db);
+  lastSeen.set(db, signature);
+  return added;
+}
+
+async function takeSignedStudies(db: Sequelize): Promise<number> {
   return db.transaction(async (transaction) => {
     await db.query('SELECT pg_advisory_xact_lock(:lock)', {
       transaction,
