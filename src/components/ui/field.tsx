@@ -11,16 +11,24 @@ interface FieldProps {
   hint?: ReactNode;
 }
 
+/** The attributes that tie a field's control to its label and messages. */
+interface ControlProps {
+  id: string;
+  'aria-invalid': true | undefined;
+  'aria-describedby': string | undefined;
+  className: string;
+}
+
 const inputClass =
   'mt-1 block w-full rounded-lg border border-slate-300 bg-white px-3 py-2 text-sm shadow-sm focus:border-lamina-500 aria-[invalid=true]:border-red-600';
 
-/** A labelled input with its error message tied to it for screen readers. */
-export function TextField({
+/** Label, control, and the hint or error, with the ids screen readers need. */
+function Field({
   label,
   error,
   hint,
-  ...input
-}: FieldProps & InputHTMLAttributes<HTMLInputElement>) {
+  control,
+}: FieldProps & { control: (props: ControlProps) => ReactNode }) {
   const id = useId();
   return (
     <div>
@@ -30,15 +38,16 @@ export function TextField({
       >
         {label}
       </label>
-      <input
-        id={id}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={
-          error ? `${id}-error` : hint ? `${id}-hint` : undefined
-        }
-        className={inputClass}
-        {...input}
-      />
+      {control({
+        id,
+        'aria-invalid': error ? true : undefined,
+        'aria-describedby': error
+          ? `${id}-error`
+          : hint
+            ? `${id}-hint`
+            : undefined,
+        className: inputClass,
+      })}
       {hint && !error && (
         <p id={`${id}-hint`} className="mt-1 text-xs text-slate-500">
           {hint}
@@ -57,35 +66,41 @@ export function TextField({
   );
 }
 
-/** A labelled select. */
+/** A labelled input with its error message tied to it for screen readers. */
+export function TextField({
+  label,
+  error,
+  hint,
+  ...input
+}: FieldProps & InputHTMLAttributes<HTMLInputElement>) {
+  return (
+    <Field
+      label={label}
+      error={error}
+      hint={hint}
+      control={(props) => <input {...props} {...input} />}
+    />
+  );
+}
+
+/** A labelled select with its error message tied to it for screen readers. */
 export function SelectField({
   label,
   error,
+  hint,
   children,
   ...select
 }: FieldProps & SelectHTMLAttributes<HTMLSelectElement>) {
-  const id = useId();
   return (
-    <div>
-      <label
-        htmlFor={id}
-        className="block text-sm font-semibold text-slate-700"
-      >
-        {label}
-      </label>
-      <select
-        id={id}
-        aria-invalid={error ? true : undefined}
-        className={inputClass}
-        {...select}
-      >
-        {children}
-      </select>
-      {error && (
-        <p role="alert" className="mt-1 text-xs text-red-700">
-          {error}
-        </p>
+    <Field
+      label={label}
+      error={error}
+      hint={hint}
+      control={(props) => (
+        <select {...props} {...select}>
+          {children}
+        </select>
       )}
-    </div>
+    />
   );
 }
