@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import type { GridDto } from '../../../../shared/schemas/equipment.schema.ts';
 import { formatNumber, materialName } from './format.ts';
-import { GridValue } from './grid-value.tsx';
+import { CONSTRUCTION_VALUES, GridValue } from './grid-value.tsx';
 
 function Item({ term, children }: { term: string; children: ReactNode }) {
   return (
@@ -11,6 +11,15 @@ function Item({ term, children }: { term: string; children: ReactNode }) {
     </div>
   );
 }
+
+/** The maker's IEC 60627 figures, shown to three significant digits. */
+const STATED_FIGURES = [
+  ['statedTp', 'Primary transmission Tp'],
+  ['statedTs', 'Scatter transmission Ts'],
+  ['statedContrastImprovementFactor', 'Contrast improvement factor K'],
+  ['statedBuckyFactor', 'Bucky factor B'],
+  ['statedSelectivity', 'Selectivity Σ'],
+] as const satisfies readonly (readonly [keyof GridDto, string])[];
 
 const focusRange = (grid: GridDto): string =>
   grid.focusRangeMinCm === null && grid.focusRangeMaxCm === null
@@ -25,13 +34,7 @@ export function GridDetails({
   grid: GridDto;
   roomName: string;
 }) {
-  const hasStated = [
-    grid.statedTp,
-    grid.statedTs,
-    grid.statedContrastImprovementFactor,
-    grid.statedBuckyFactor,
-    grid.statedSelectivity,
-  ].some((v) => v !== null);
+  const hasStated = STATED_FIGURES.some(([key]) => grid[key] !== null);
   return (
     <div className="grid gap-6 md:grid-cols-2">
       <section
@@ -46,21 +49,11 @@ export function GridDetails({
         </h2>
         <dl>
           <Item term="Room">{roomName}</Item>
-          <Item term="Grid ratio r">
-            <GridValue grid={grid} quantity="ratio" />
-          </Item>
-          <Item term="Strip frequency N (lines/cm)">
-            <GridValue grid={grid} quantity="stripFrequencyPerCm" />
-          </Item>
-          <Item term="Strip height h (µm)">
-            <GridValue grid={grid} quantity="stripHeightUm" />
-          </Item>
-          <Item term="Interspace width D (µm)">
-            <GridValue grid={grid} quantity="interspaceWidthUm" />
-          </Item>
-          <Item term="Strip thickness t (µm)">
-            <GridValue grid={grid} quantity="stripThicknessUm" />
-          </Item>
+          {CONSTRUCTION_VALUES.map(({ quantity, term }) => (
+            <Item key={quantity} term={term}>
+              <GridValue grid={grid} quantity={quantity} />
+            </Item>
+          ))}
           <Item term="Materials (strip / interspace / cover)">
             {materialName(grid.stripMaterial)} /{' '}
             {materialName(grid.interspaceMaterial)} /{' '}
@@ -89,21 +82,11 @@ export function GridDetails({
               these are not field values measured here.
             </p>
             <dl>
-              <Item term="Primary transmission Tp">
-                {formatNumber(grid.statedTp, 3)}
-              </Item>
-              <Item term="Scatter transmission Ts">
-                {formatNumber(grid.statedTs, 3)}
-              </Item>
-              <Item term="Contrast improvement factor K">
-                {formatNumber(grid.statedContrastImprovementFactor, 3)}
-              </Item>
-              <Item term="Bucky factor B">
-                {formatNumber(grid.statedBuckyFactor, 3)}
-              </Item>
-              <Item term="Selectivity Σ">
-                {formatNumber(grid.statedSelectivity, 3)}
-              </Item>
+              {STATED_FIGURES.map(([key, term]) => (
+                <Item key={key} term={term}>
+                  {formatNumber(grid[key], 3)}
+                </Item>
+              ))}
               <Item term="Source">{grid.statedFiguresNote ?? '–'}</Item>
             </dl>
           </>

@@ -4,7 +4,7 @@ import type {
   RoomDto,
 } from '../../../../shared/schemas/equipment.schema.ts';
 import { formatNumber } from './format.ts';
-import { GridValue } from './grid-value.tsx';
+import { CONSTRUCTION_VALUES, GridValue } from './grid-value.tsx';
 
 /** The grid inventory as a table; each label opens the grid's page. */
 export function GridTable({
@@ -24,11 +24,11 @@ export function GridTable({
           <tr>
             <th className="px-3 py-2">Label</th>
             <th className="px-3 py-2">Room</th>
-            <th className="px-3 py-2">Ratio</th>
-            <th className="px-3 py-2">N (lines/cm)</th>
-            <th className="px-3 py-2">h (µm)</th>
-            <th className="px-3 py-2">D (µm)</th>
-            <th className="px-3 py-2">t (µm)</th>
+            {CONSTRUCTION_VALUES.map(({ quantity, column }) => (
+              <th key={quantity} className="px-3 py-2">
+                {column}
+              </th>
+            ))}
             <th className="px-3 py-2">f0 (cm)</th>
             <th className="px-3 py-2">Serial</th>
           </tr>
@@ -49,21 +49,11 @@ export function GridTable({
                 </Link>
               </td>
               <td className="px-3 py-2">{roomName(grid.roomId)}</td>
-              <td className="px-3 py-2">
-                <GridValue grid={grid} quantity="ratio" />
-              </td>
-              <td className="px-3 py-2">
-                <GridValue grid={grid} quantity="stripFrequencyPerCm" />
-              </td>
-              <td className="px-3 py-2">
-                <GridValue grid={grid} quantity="stripHeightUm" />
-              </td>
-              <td className="px-3 py-2">
-                <GridValue grid={grid} quantity="interspaceWidthUm" />
-              </td>
-              <td className="px-3 py-2">
-                <GridValue grid={grid} quantity="stripThicknessUm" />
-              </td>
+              {CONSTRUCTION_VALUES.map(({ quantity }) => (
+                <td key={quantity} className="px-3 py-2">
+                  <GridValue grid={grid} quantity={quantity} />
+                </td>
+              ))}
               <td className="px-3 py-2">
                 {grid.focusDistanceCm === null
                   ? 'parallel'
