@@ -3,6 +3,7 @@ import type { CalibrationModel } from '../../../../shared/analysis/detector-cali
 import { checkCalibrationFit } from '../../../../shared/schemas/equipment-rules.ts';
 import { Button } from '../../../components/ui/button.tsx';
 import { TextField } from '../../../components/ui/field.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
 import { useCreateCalibration } from '../api/detectors.ts';
 import { CalibrationChart } from './calibration-chart.tsx';
@@ -248,11 +249,7 @@ export function CalibrationForm({
         onChange={(e) => setNotes(e.target.value)}
         error={error?.fieldMessage('notes')}
       />
-      {error && error.details.length === 0 && (
-        <p role="alert" className="text-sm text-red-700">
-          {error.message}
-        </p>
-      )}
+      <FormError error={error} />
       <Button type="submit" disabled={create.isPending || !check?.result}>
         Record calibration
       </Button>

@@ -6,10 +6,11 @@ import {
   type DetectorDto,
   type DetectorType,
 } from '../../../../shared/schemas/equipment.schema.ts';
-import { Button } from '../../../components/ui/button.tsx';
 import { SelectField, TextField } from '../../../components/ui/field.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
 import { useCreateDetector, useUpdateDetector } from '../api/detectors.ts';
+import { FormActions } from './form-actions.tsx';
 import { parseNumberField } from './format.ts';
 
 interface DetectorFormProps {
@@ -110,25 +111,14 @@ export function DetectorForm({
         onChange={(e) => setSerial(e.target.value)}
         error={error?.fieldMessage('serial')}
       />
-      <div className="flex items-end gap-3">
-        <Button
-          type="submit"
-          variant={detector ? 'primary' : 'secondary'}
-          disabled={save.isPending}
-        >
-          {detector ? 'Save detector' : 'Add detector'}
-        </Button>
-        {onCancel && (
-          <Button variant="secondary" onClick={onCancel}>
-            Cancel
-          </Button>
-        )}
-      </div>
-      {error && error.details.length === 0 && (
-        <p role="alert" className="text-sm text-red-700 md:col-span-3">
-          {error.message}
-        </p>
-      )}
+      <FormActions
+        submitLabel={detector ? 'Save detector' : 'Add detector'}
+        variant={detector ? 'primary' : 'secondary'}
+        isDisabled={save.isPending}
+        onCancel={onCancel}
+        className="flex items-end gap-3"
+      />
+      <FormError error={error} className="md:col-span-3" />
     </form>
   );
 }

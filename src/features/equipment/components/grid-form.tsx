@@ -6,11 +6,12 @@ import {
   type GridDto,
   type RoomDto,
 } from '../../../../shared/schemas/equipment.schema.ts';
-import { Button } from '../../../components/ui/button.tsx';
 import { SelectField, TextField } from '../../../components/ui/field.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
 import { useCreateGrid, useUpdateGrid } from '../api/grids.ts';
 import { DerivedMark } from './derived-mark.tsx';
+import { FormActions } from './form-actions.tsx';
 import { formatNumber, materialName } from './format.ts';
 import {
   gridPayload,
@@ -207,24 +208,13 @@ export function GridForm({ rooms, grid, onDone, onCancel }: GridFormProps) {
 
       <TextField label="Notes" error={fieldError('notes')} {...bind('notes')} />
 
-      {serverError && serverError.details.length === 0 && (
-        <p role="alert" className="text-sm text-red-700">
-          {serverError.message}
-        </p>
-      )}
-      <div className="flex gap-3">
-        <Button
-          type="submit"
-          disabled={save.isPending || reading.problems.length > 0}
-        >
-          {grid ? 'Save changes' : 'Add grid'}
-        </Button>
-        {onCancel && (
-          <Button variant="secondary" onClick={onCancel}>
-            Cancel
-          </Button>
-        )}
-      </div>
+      <FormError error={serverError} />
+      <FormActions
+        submitLabel={grid ? 'Save changes' : 'Add grid'}
+        isDisabled={save.isPending || reading.problems.length > 0}
+        onCancel={onCancel}
+        className="flex gap-3"
+      />
     </form>
   );
 }

@@ -3,10 +3,11 @@ import type {
   RoomDetailDto,
   RoomDto,
 } from '../../../../shared/schemas/equipment.schema.ts';
-import { Button } from '../../../components/ui/button.tsx';
 import { TextField } from '../../../components/ui/field.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
 import { useCreateRoom, useUpdateRoom } from '../api/rooms.ts';
+import { FormActions } from './form-actions.tsx';
 
 interface RoomFormProps {
   /** The room to change; a new room when absent. */
@@ -67,21 +68,13 @@ export function RoomForm({ room, onDone, onCancel }: RoomFormProps) {
         onChange={(e) => setModalityNotes(e.target.value)}
         error={error?.fieldMessage('modalityNotes')}
       />
-      {error && error.details.length === 0 && (
-        <p role="alert" className="text-sm text-red-700 md:col-span-3">
-          {error.message}
-        </p>
-      )}
-      <div className="flex gap-3 md:col-span-3">
-        <Button type="submit" disabled={save.isPending}>
-          {room ? 'Save room' : 'Add room'}
-        </Button>
-        {onCancel && (
-          <Button variant="secondary" onClick={onCancel}>
-            Cancel
-          </Button>
-        )}
-      </div>
+      <FormError error={error} className="md:col-span-3" />
+      <FormActions
+        submitLabel={room ? 'Save room' : 'Add room'}
+        isDisabled={save.isPending}
+        onCancel={onCancel}
+        className="flex gap-3 md:col-span-3"
+      />
     </form>
   );
 }

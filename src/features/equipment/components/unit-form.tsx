@@ -1,6 +1,7 @@
 import { useState, type FormEvent } from 'react';
 import { Button } from '../../../components/ui/button.tsx';
 import { TextField } from '../../../components/ui/field.tsx';
+import { FormError } from '../../../components/ui/form-error.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
 import { useCreateXrayUnit } from '../api/rooms.ts';
 
@@ -56,11 +57,7 @@ export function UnitForm({ roomId }: { roomId: number }) {
           Add unit
         </Button>
       </div>
-      {error && error.details.length === 0 && (
-        <p role="alert" className="text-sm text-red-700 md:col-span-4">
-          {error.message}
-        </p>
-      )}
+      <FormError error={error} className="md:col-span-4" />
     </form>
   );
 }
