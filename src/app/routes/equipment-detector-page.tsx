@@ -1,6 +1,7 @@
 import { useState } from 'react';
-import { Link, useNavigate, useParams } from 'react-router-dom';
+import { useNavigate, useParams } from 'react-router-dom';
 import { DETECTOR_TYPE_LABELS } from '../../../shared/schemas/equipment.schema.ts';
+import { Breadcrumbs } from '../../components/ui/breadcrumbs.tsx';
 import { Button } from '../../components/ui/button.tsx';
 import {
   Empty,
@@ -16,6 +17,7 @@ import { CalibrationForm } from '../../features/equipment/components/calibration
 import { CalibrationRecord } from '../../features/equipment/components/calibration-record.tsx';
 import { DetectorForm } from '../../features/equipment/components/detector-form.tsx';
 import { formatNumber } from '../../features/equipment/components/format.ts';
+import { RecordActions } from '../../features/equipment/components/record-actions.tsx';
 
 export default function EquipmentDetectorPage() {
   const id = Number(useParams().id);
@@ -38,46 +40,30 @@ export default function EquipmentDetectorPage() {
 
   return (
     <div className="space-y-6">
-      <p className="text-sm">
-        <Link to="/equipment" className="text-lamina-700 underline">
-          Equipment
-        </Link>{' '}
-        /{' '}
-        <Link
-          to={`/equipment/rooms/${data.roomId}`}
-          className="text-lamina-700 underline"
-        >
-          {data.roomName}
-        </Link>{' '}
-        / {data.name}
-      </p>
+      <Breadcrumbs
+        trail={[
+          { to: '/equipment', label: 'Equipment' },
+          { to: `/equipment/rooms/${data.roomId}`, label: data.roomName },
+        ]}
+        current={data.name}
+      />
       <PageTitle
         actions={
-          canEdit && (
-            <div className="flex gap-3">
-              {!isEditing && (
-                <Button variant="secondary" onClick={() => setIsEditing(true)}>
-                  Change detector
-                </Button>
-              )}
-              {data.permissions.delete && (
-                <Button
-                  variant="danger"
-                  disabled={remove.isPending}
-                  onClick={() => {
-                    if (window.confirm(`Delete ${data.name}?`)) {
-                      remove.mutate(data.id, {
-                        onSuccess: () =>
-                          void navigate(`/equipment/rooms/${data.roomId}`),
-                      });
-                    }
-                  }}
-                >
-                  Delete detector
-                </Button>
-              )}
-            </div>
-          )
+          <RecordActions
+            noun="detector"
+            name={data.name}
+            canEdit={canEdit}
+            canDelete={data.permissions.delete}
+            isEditing={isEditing}
+            onEdit={() => setIsEditing(true)}
+            isDeleting={remove.isPending}
+            onDelete={() =>
+              remove.mutate(data.id, {
+                onSuccess: () =>
+                  void navigate(`/equipment/rooms/${data.roomId}`),
+              })
+            }
+          />
         }
       >
         {data.name}

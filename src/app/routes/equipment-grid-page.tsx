@@ -1,6 +1,6 @@
 import { useState } from 'react';
-import { Link, useNavigate, useParams } from 'react-router-dom';
-import { Button } from '../../components/ui/button.tsx';
+import { useNavigate, useParams } from 'react-router-dom';
+import { Breadcrumbs } from '../../components/ui/breadcrumbs.tsx';
 import {
   ErrorNotice,
   Loading,
@@ -10,6 +10,7 @@ import { useDeleteGrid, useGrid } from '../../features/equipment/api/grids.ts';
 import { useRooms } from '../../features/equipment/api/rooms.ts';
 import { GridDetails } from '../../features/equipment/components/grid-details.tsx';
 import { GridForm } from '../../features/equipment/components/grid-form.tsx';
+import { RecordActions } from '../../features/equipment/components/record-actions.tsx';
 
 export default function EquipmentGridPage() {
   const id = Number(useParams().id);
@@ -35,40 +36,29 @@ export default function EquipmentGridPage() {
 
   return (
     <div className="space-y-6">
-      <p className="text-sm">
-        <Link to="/equipment" className="text-lamina-700 underline">
-          Equipment
-        </Link>{' '}
-        /{' '}
-        <Link to="/equipment/grids" className="text-lamina-700 underline">
-          Grid inventory
-        </Link>{' '}
-        / {data.label}
-      </p>
+      <Breadcrumbs
+        trail={[
+          { to: '/equipment', label: 'Equipment' },
+          { to: '/equipment/grids', label: 'Grid inventory' },
+        ]}
+        current={data.label}
+      />
       <PageTitle
         actions={
-          <div className="flex gap-3">
-            {data.permissions.edit && !isEditing && (
-              <Button variant="secondary" onClick={() => setIsEditing(true)}>
-                Change grid
-              </Button>
-            )}
-            {data.permissions.delete && (
-              <Button
-                variant="danger"
-                disabled={remove.isPending}
-                onClick={() => {
-                  if (window.confirm(`Delete ${data.label}?`)) {
-                    remove.mutate(data.id, {
-                      onSuccess: () => void navigate('/equipment/grids'),
-                    });
-                  }
-                }}
-              >
-                Delete grid
-              </Button>
-            )}
-          </div>
+          <RecordActions
+            noun="grid"
+            name={data.label}
+            canEdit={data.permissions.edit}
+            canDelete={data.permissions.delete}
+            isEditing={isEditing}
+            onEdit={() => setIsEditing(true)}
+            isDeleting={remove.isPending}
+            onDelete={() =>
+              remove.mutate(data.id, {
+                onSuccess: () => void navigate('/equipment/grids'),
+              })
+            }
+          />
         }
       >
         {data.label}

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { Link } from 'react-router-dom';
+import { Breadcrumbs } from '../../components/ui/breadcrumbs.tsx';
 import { Button } from '../../components/ui/button.tsx';
 import {
   Empty,
@@ -23,12 +23,10 @@ export default function EquipmentGridsPage() {
 
   return (
     <div className="space-y-6">
-      <p className="text-sm">
-        <Link to="/equipment" className="text-lamina-700 underline">
-          Equipment
-        </Link>{' '}
-        / Grid inventory
-      </p>
+      <Breadcrumbs
+        trail={[{ to: '/equipment', label: 'Equipment' }]}
+        current="Grid inventory"
+      />
       <PageTitle
         actions={
           canEdit &&

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { DETECTOR_TYPE_LABELS } from '../../../shared/schemas/equipment.schema.ts';
+import { Breadcrumbs } from '../../components/ui/breadcrumbs.tsx';
 import { Button } from '../../components/ui/button.tsx';
 import {
   Empty,
@@ -18,6 +19,7 @@ import {
   formatNumber,
   formatRatio,
 } from '../../features/equipment/components/format.ts';
+import { RecordActions } from '../../features/equipment/components/record-actions.tsx';
 import { RoomForm } from '../../features/equipment/components/room-form.tsx';
 import { UnitForm } from '../../features/equipment/components/unit-form.tsx';
 
@@ -39,38 +41,26 @@ export default function EquipmentRoomPage() {
 
   return (
     <div className="space-y-6">
-      <p className="text-sm">
-        <Link to="/equipment" className="text-lamina-700 underline">
-          Equipment
-        </Link>{' '}
-        / {data.name}
-      </p>
+      <Breadcrumbs
+        trail={[{ to: '/equipment', label: 'Equipment' }]}
+        current={data.name}
+      />
       <PageTitle
         actions={
-          canEdit && (
-            <div className="flex gap-3">
-              {!isEditing && (
-                <Button variant="secondary" onClick={() => setIsEditing(true)}>
-                  Change room
-                </Button>
-              )}
-              {data.permissions.delete && (
-                <Button
-                  variant="danger"
-                  disabled={removeRoom.isPending}
-                  onClick={() => {
-                    if (window.confirm(`Delete ${data.name}?`)) {
-                      removeRoom.mutate(data.id, {
-                        onSuccess: () => void navigate('/equipment'),
-                      });
-                    }
-                  }}
-                >
-                  Delete room
-                </Button>
-              )}
-            </div>
-          )
+          <RecordActions
+            noun="room"
+            name={data.name}
+            canEdit={canEdit}
+            canDelete={data.permissions.delete}
+            isEditing={isEditing}
+            onEdit={() => setIsEditing(true)}
+            isDeleting={removeRoom.isPending}
+            onDelete={() =>
+              removeRoom.mutate(data.id, {
+                onSuccess: () => void navigate('/equipment'),
+              })
+            }
+          />
         }
       >
         {data.name}

@@ -6,6 +6,7 @@ import {
   Loading,
   PageTitle,
 } from '../../components/ui/page-state.tsx';
+import { PageLinks } from '../../components/ui/page-links.tsx';
 import { useStudyImages } from '../../features/ingest/api/get-image.ts';
 import { RegionEditor } from '../../features/region-editor/components/region-editor.tsx';
 import { useStudy } from '../../features/studies/api/studies.ts';
@@ -39,20 +40,12 @@ export default function RegionEditorPage() {
     <div className="space-y-6">
       <PageTitle
         actions={
-          <div className="flex gap-3 text-sm">
-            <Link
-              to={`/studies/${studyId}`}
-              className="rounded-lg px-3 py-2 text-lamina-800 ring-1 ring-lamina-300 hover:bg-lamina-50"
-            >
-              Back to the study
-            </Link>
-            <Link
-              to={`/studies/${studyId}/results`}
-              className="rounded-lg px-3 py-2 text-lamina-800 ring-1 ring-lamina-300 hover:bg-lamina-50"
-            >
-              Results
-            </Link>
-          </div>
+          <PageLinks
+            links={[
+              { to: `/studies/${studyId}`, label: 'Back to the study' },
+              { to: `/studies/${studyId}/results`, label: 'Results' },
+            ]}
+          />
         }
       >
         Regions · {study.data.title}

@@ -1,10 +1,11 @@
-import { Link, useParams } from 'react-router-dom';
+import { useParams } from 'react-router-dom';
 import {
   Empty,
   ErrorNotice,
   Loading,
   PageTitle,
 } from '../../components/ui/page-state.tsx';
+import { PageLinks } from '../../components/ui/page-links.tsx';
 import { SafetyNotice } from '../../components/ui/safety-notice.tsx';
 import { measuredFromFigures } from '../../features/geometry/components/measured-figures.ts';
 import { StudyPredictionsSection } from '../../features/geometry/components/study-predictions-section.tsx';
@@ -34,20 +35,12 @@ export default function StudyResultsPage() {
     <div className="space-y-6">
       <PageTitle
         actions={
-          <div className="flex gap-3 text-sm">
-            <Link
-              to={`/studies/${studyId}`}
-              className="rounded-lg px-3 py-2 text-lamina-800 ring-1 ring-lamina-300 hover:bg-lamina-50"
-            >
-              Back to the study
-            </Link>
-            <Link
-              to={`/studies/${studyId}/regions`}
-              className="rounded-lg px-3 py-2 text-lamina-800 ring-1 ring-lamina-300 hover:bg-lamina-50"
-            >
-              Regions
-            </Link>
-          </div>
+          <PageLinks
+            links={[
+              { to: `/studies/${studyId}`, label: 'Back to the study' },
+              { to: `/studies/${studyId}/regions`, label: 'Regions' },
+            ]}
+          />
         }
       >
         Results
