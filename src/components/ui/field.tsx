@@ -3,6 +3,7 @@ import {
   type InputHTMLAttributes,
   type ReactNode,
   type SelectHTMLAttributes,
+  type TextareaHTMLAttributes,
 } from 'react';
 
 interface FieldProps {
@@ -101,6 +102,23 @@ export function SelectField({
           {children}
         </select>
       )}
+    />
+  );
+}
+
+/** A labelled text area with its error message tied to it for screen readers. */
+export function TextAreaField({
+  label,
+  error,
+  hint,
+  ...textarea
+}: FieldProps & TextareaHTMLAttributes<HTMLTextAreaElement>) {
+  return (
+    <Field
+      label={label}
+      error={error}
+      hint={hint}
+      control={(props) => <textarea {...props} {...textarea} />}
     />
   );
 }

@@ -1,6 +1,7 @@
-import { useId, useState, type FormEvent } from 'react';
+import { useState, type FormEvent } from 'react';
 import type { StudyCommentDto } from '../../../../shared/studies/study-dto.ts';
 import { Button } from '../../../components/ui/button.tsx';
+import { TextAreaField } from '../../../components/ui/field.tsx';
 import {
   Empty,
   ErrorNotice,
@@ -8,6 +9,7 @@ import {
 } from '../../../components/ui/page-state.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
 import { useAddComment, useComments } from '../api/review.ts';
+import { formatDateTime } from './format-date.ts';
 
 const KIND_LABELS: Record<StudyCommentDto['kind'], string | null> = {
   comment: null,
@@ -25,7 +27,6 @@ export function CommentThread({
 }) {
   const comments = useComments(studyId);
   const add = useAddComment(studyId);
-  const boxId = useId();
   const [body, setBody] = useState('');
   const fieldError =
     add.error instanceof ApiError ? add.error.fieldMessage('body') : undefined;
@@ -61,11 +62,7 @@ export function CommentThread({
                 </span>{' '}
                 ({c.author.role})
                 {KIND_LABELS[c.kind] && ` ${KIND_LABELS[c.kind]}`} · revision{' '}
-                {c.revision} ·{' '}
-                {new Date(c.createdAt).toLocaleString('en-GB', {
-                  dateStyle: 'medium',
-                  timeStyle: 'short',
-                })}
+                {c.revision} · {formatDateTime(c.createdAt)}
               </p>
               <p className="mt-1 whitespace-pre-wrap text-slate-900">
                 {c.body}
@@ -76,25 +73,13 @@ export function CommentThread({
       )}
       {canComment && (
         <form onSubmit={handleSubmit} className="space-y-2" data-print="hide">
-          <label
-            htmlFor={boxId}
-            className="block text-sm font-semibold text-slate-700"
-          >
-            Add a comment
-          </label>
-          <textarea
-            id={boxId}
+          <TextAreaField
+            label="Add a comment"
             rows={2}
             value={body}
             onChange={(e) => setBody(e.target.value)}
-            aria-invalid={fieldError ? true : undefined}
-            className="block w-full rounded-lg border border-slate-300 px-3 py-2 text-sm"
+            error={fieldError}
           />
-          {fieldError && (
-            <p role="alert" className="text-xs text-red-700">
-              {fieldError}
-            </p>
-          )}
           {add.isError && !fieldError && <ErrorNotice error={add.error} />}
           <Button type="submit" variant="secondary" disabled={add.isPending}>
             Post comment

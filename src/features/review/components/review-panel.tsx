@@ -1,18 +1,14 @@
-import { useId, useState, type FormEvent } from 'react';
+import { useState, type FormEvent } from 'react';
 import { STUDY_STATUS_LABELS } from '../../../../shared/studies/status-labels.ts';
 import type { StudyDto } from '../../../../shared/studies/study-dto.ts';
 import { Button } from '../../../components/ui/button.tsx';
+import { TextAreaField } from '../../../components/ui/field.tsx';
 import { ErrorNotice } from '../../../components/ui/page-state.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
 import { useStudyAction } from '../api/review.ts';
+import { formatDateTime } from './format-date.ts';
 
-const when = (iso: string | null) =>
-  iso
-    ? new Date(iso).toLocaleString('en-GB', {
-        dateStyle: 'medium',
-        timeStyle: 'short',
-      })
-    : '';
+const when = (iso: string | null) => (iso ? formatDateTime(iso) : '');
 
 function stateLine(study: StudyDto): string {
   switch (study.status) {
@@ -32,7 +28,6 @@ function stateLine(study: StudyDto): string {
 /** The study's state and the review actions the viewer may take now. */
 export function ReviewPanel({ study }: { study: StudyDto }) {
   const act = useStudyAction(study.id);
-  const noteId = useId();
   const [mode, setMode] = useState<'idle' | 'return' | 'sign'>('idle');
   const [note, setNote] = useState('');
   const p = study.permissions;
@@ -105,27 +100,17 @@ export function ReviewPanel({ study }: { study: StudyDto }) {
           className="space-y-3 rounded-lg bg-lamina-50 p-4"
           aria-label={mode === 'return' ? 'Return the study' : 'Sign the study'}
         >
-          <label
-            htmlFor={noteId}
-            className="block text-sm font-semibold text-slate-700"
-          >
-            {mode === 'return'
-              ? 'What must change (sent to the author)'
-              : 'Note with the signature (optional)'}
-          </label>
-          <textarea
-            id={noteId}
+          <TextAreaField
+            label={
+              mode === 'return'
+                ? 'What must change (sent to the author)'
+                : 'Note with the signature (optional)'
+            }
             rows={3}
             value={note}
             onChange={(e) => setNote(e.target.value)}
-            aria-invalid={fieldError ? true : undefined}
-            className="block w-full rounded-lg border border-slate-300 px-3 py-2 text-sm"
+            error={fieldError}
           />
-          {fieldError && (
-            <p role="alert" className="text-xs text-red-700">
-              {fieldError}
-            </p>
-          )}
           {mode === 'sign' && (
             <p className="text-sm text-slate-700">
               Signing freezes revision {study.revision}: it cannot change

@@ -1,5 +1,6 @@
 import { ARM_NAMES } from '../../../../shared/studies/condition-label.ts';
 import type { StudyRevisionDto } from '../../../../shared/studies/study-dto.ts';
+import { formatDateTime } from './format-date.ts';
 
 /** A signed revision exactly as it was signed. */
 export function RevisionSnapshot({ revision }: { revision: StudyRevisionDto }) {
@@ -11,10 +12,7 @@ export function RevisionSnapshot({ revision }: { revision: StudyRevisionDto }) {
       <section className="rounded-xl bg-white p-6 shadow-sm">
         <p className="text-sm text-slate-600">
           Signed by <strong>{revision.signedBy.displayName}</strong> on{' '}
-          {new Date(revision.signedAt).toLocaleString('en-GB', {
-            dateStyle: 'medium',
-            timeStyle: 'short',
-          })}
+          {formatDateTime(revision.signedAt)}
           {snapshot.selfSigned && ' (its own author)'}. Prepared by{' '}
           {snapshot.study.createdBy.displayName}.
         </p>
