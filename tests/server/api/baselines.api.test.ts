@@ -294,6 +294,18 @@ describe('PATCH and DELETE /api/baselines/:id', () => {
     id = list.body.data[0].id;
   });
 
+  it('answers 401 without a session on every baseline route', async () => {
+    const anonymous = browserAgent(t.app);
+    for (const res of [
+      await anonymous.get(`/api/baselines/${id}`),
+      await anonymous.patch(`/api/baselines/${id}`).send({ note: 'x' }),
+      await anonymous.delete(`/api/baselines/${id}`),
+    ]) {
+      expect(res.status).toBe(401);
+      expect(res.body.error.code).toBe('unauthenticated');
+    }
+  });
+
   it.each(['committee', 'resident', 'admin'] as const)(
     'answers 403 to the %s',
     async (role) => {

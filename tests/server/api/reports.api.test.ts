@@ -354,6 +354,17 @@ describe('GET /api/compare.pdf', () => {
     expect(res.body.error.code).toBe('forbidden');
   });
 
+  it.each(ROLES)('gives the %s a PDF of the signed selection', async (role) => {
+    const res = await agents
+      .get(role)!
+      .get(`/api/compare.pdf?rooms=${signed.room.id}`)
+      .buffer(true)
+      .parse(binary);
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toBe('application/pdf');
+    expect((res.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-');
+  });
+
   it('prints the selection, verdicts and conditions for the committee (pdftotext)', async () => {
     const res = await agents
       .get('committee')!

@@ -34,6 +34,50 @@ function BaselineCell({ condition }: { condition: CompareConditionDto }) {
   );
 }
 
+/** Predicted figures from the grid's construction beside the measured ones. */
+function PredictedBeside({ condition }: { condition: CompareConditionDto }) {
+  const p = condition.predicted!;
+  const f = condition.figures;
+  const withSpr = p.withMeasuredSpr;
+  const pairs: Array<[string, number | undefined, number | null]> = [
+    ['Tp', f.primary_transmission?.value, p.primaryTransmission],
+    ['Ts', f.scatter_transmission?.value, p.scatterTransmission],
+    ['Σ', f.selectivity?.value, p.selectivity],
+    [
+      'K',
+      f.contrast_improvement_factor?.value,
+      withSpr?.contrastImprovementFactor ?? null,
+    ],
+    ['B', f.bucky_factor?.value, withSpr?.buckyFactor ?? null],
+    [
+      'SIF',
+      f.snr_improvement_factor?.value,
+      withSpr?.snrImprovementFactor ?? null,
+    ],
+  ];
+  return (
+    <details className="text-xs text-slate-600">
+      <summary className="cursor-pointer">
+        Field values beside values predicted from the grid’s construction
+      </summary>
+      <p className="mt-1 tabular-nums">
+        {pairs
+          .map(
+            ([symbol, field, predicted]) =>
+              `${symbol} ${formatNumber(field)} (field) / ${formatNumber(predicted)} (predicted)`,
+          )
+          .join(' · ')}
+      </p>
+      <p className="mt-1">
+        {withSpr
+          ? `K, B and SIF use the measured SPR ${formatNumber(withSpr.scatterToPrimaryRatio)}. `
+          : 'K, B and SIF need an SPR measured with a beam stop. '}
+        {p.assumptions}
+      </p>
+    </details>
+  );
+}
+
 /**
  * Every listed condition with its main figures and 95 % intervals, the
  * predicted Tp beside the measured one, the verdict with its cautions and
@@ -145,6 +189,7 @@ export function ConditionsTable({
                   <p className="text-xs text-caution-700">
                     {c.cautions.join(' ')}
                   </p>
+                  {c.predicted && <PredictedBeside condition={c} />}
                   {c.warnings.length > 0 && (
                     <details className="text-xs text-slate-600">
                       <summary className="cursor-pointer">
