@@ -23,6 +23,8 @@ import {
   currentUser,
   requireRole,
 } from '../middleware/authenticate.ts';
+import type { ImageRegion } from '../models/image-region.model.ts';
+import type { Image } from '../models/image.model.ts';
 import type { RegionLayoutRecord } from '../models/region-layout.model.ts';
 import type { Study } from '../models/study.model.ts';
 import { User } from '../models/user.model.ts';
@@ -106,6 +108,52 @@ async function studyLayoutDto(
   };
 }
 
+/** Loads a study the viewer may see and checks their role may change it. */
+async function studyToChange(viewer: Actor, id: number): Promise<Study> {
+  const study = await findStudyFor(viewer, id);
+  authorize(
+    canEditStudy(viewer, study),
+    'Your role does not let you change this study.',
+  );
+  return study;
+}
+
+/** Loads a library layout and checks the viewer may change or delete it. */
+async function layoutToChange(
+  viewer: Actor,
+  id: number,
+  refusal: string,
+): Promise<RegionLayoutRecord> {
+  const layout = await findLibraryLayout(id);
+  authorize(canEditLayout(viewer, layout), refusal);
+  return layout;
+}
+
+const authorizeLibrary = (viewer: Actor): void =>
+  authorize(
+    canReadLayoutLibrary(viewer),
+    'The committee reads layouts through signed studies.',
+  );
+
+/** An image's layout as placed on it; `edit` only counts when it has one. */
+function imageRegionsDto(
+  image: Image,
+  layout: RegionLayoutRecord | null,
+  row: ImageRegion | null,
+  edit: boolean,
+): ImageRegionsDto {
+  return {
+    imageId: image.id,
+    studyId: image.studyId,
+    layout: layout
+      ? presentLayout(layout, null, { edit, delete: false })
+      : null,
+    placement: row ? presentPlacement(row) : null,
+    placed: layout ? placedLayoutFor(layout, row, spacingOf(image)) : null,
+    permissions: { edit: edit && layout !== null },
+  };
+}
+
 /** Loads the image of `:id`; 404 when the viewer may not see it. */
 async function readableImage(req: Request) {
   const { id } = imageIdParamsSchema.parse(req.params);
@@ -131,10 +179,7 @@ export function layoutsRouter(config: AppConfig): Router {
 
   router.get('/layouts', authenticate, async (req, res) => {
     const viewer = currentUser(req);
-    authorize(
-      canReadLayoutLibrary(viewer),
-      'The committee reads layouts through signed studies.',
-    );
+    authorizeLibrary(viewer);
     res.json({
       data: await presentLibrary(await listLibraryLayouts(), viewer),
     });
@@ -150,10 +195,7 @@ export function layoutsRouter(config: AppConfig): Router {
 
   router.get('/layouts/:id', authenticate, async (req, res) => {
     const viewer = currentUser(req);
-    authorize(
-      canReadLayoutLibrary(viewer),
-      'The committee reads layouts through signed studies.',
-    );
+    authorizeLibrary(viewer);
     const { id } = layoutIdParamsSchema.parse(req.params);
     const layout = await findLibraryLayout(id);
     res.json({ data: (await presentLibrary([layout], viewer))[0] });
@@ -162,9 +204,9 @@ export function layoutsRouter(config: AppConfig): Router {
   router.put('/layouts/:id', authenticate, async (req, res) => {
     const viewer = currentUser(req);
     const { id } = layoutIdParamsSchema.parse(req.params);
-    const layout = await findLibraryLayout(id);
-    authorize(
-      canEditLayout(viewer, layout),
+    const layout = await layoutToChange(
+      viewer,
+      id,
       'Only its owner or a physicist changes this layout.',
     );
     const input = saveLayoutSchema.parse(req.body);
@@ -175,9 +217,9 @@ export function layoutsRouter(config: AppConfig): Router {
   router.delete('/layouts/:id', authenticate, async (req, res) => {
     const viewer = currentUser(req);
     const { id } = layoutIdParamsSchema.parse(req.params);
-    const layout = await findLibraryLayout(id);
-    authorize(
-      canEditLayout(viewer, layout),
+    const layout = await layoutToChange(
+      viewer,
+      id,
       'Only its owner or a physicist deletes this layout.',
     );
     await deleteLibraryLayout(layout, auditOf(req));
@@ -194,11 +236,7 @@ export function layoutsRouter(config: AppConfig): Router {
   router.put('/studies/:id/layout', authenticate, async (req, res) => {
     const viewer = currentUser(req);
     const { id } = studyIdParamsSchema.parse(req.params);
-    const study = await findStudyFor(viewer, id);
-    authorize(
-      canEditStudy(viewer, study),
-      'Your role does not let you change this study.',
-    );
+    const study = await studyToChange(viewer, id);
     const input = setStudyLayoutSchema.parse(req.body);
     await setStudyLayout(study.id, input, auditOf(req));
     res.json({ data: await studyLayoutDto(study, viewer) });
@@ -207,11 +245,7 @@ export function layoutsRouter(config: AppConfig): Router {
   router.post('/studies/:id/layout/apply', authenticate, async (req, res) => {
     const viewer = currentUser(req);
     const { id } = studyIdParamsSchema.parse(req.params);
-    const study = await findStudyFor(viewer, id);
-    authorize(
-      canEditStudy(viewer, study),
-      'Your role does not let you change this study.',
-    );
+    const study = await studyToChange(viewer, id);
     const input = applyLayoutSchema.parse(req.body);
     const { rows, warnings } = await applyStudyLayout(
       study.id,
@@ -233,42 +267,20 @@ export function layoutsRouter(config: AppConfig): Router {
     const study =
       image.studyId === null ? null : await findStudyFor(viewer, image.studyId);
     const edit = study !== null && canChangeStudy(viewer, study);
-    const body: ImageRegionsDto = {
-      imageId: image.id,
-      studyId: image.studyId,
-      layout: layout
-        ? presentLayout(layout, null, { edit, delete: false })
-        : null,
-      placement: row ? presentPlacement(row) : null,
-      placed: layout ? placedLayoutFor(layout, row, spacingOf(image)) : null,
-      permissions: { edit: edit && layout !== null },
-    };
-    res.json({ data: body });
+    res.json({ data: imageRegionsDto(image, layout, row, edit) });
   });
 
   router.put('/images/:id/regions', authenticate, async (req, res) => {
     const viewer = currentUser(req);
     const image = await readableImage(req);
     if (image.studyId !== null) {
-      const study = await findStudyFor(viewer, image.studyId);
-      authorize(
-        canEditStudy(viewer, study),
-        'Your role does not let you change this study.',
-      );
+      await studyToChange(viewer, image.studyId);
     } else {
       authorize(viewer.role === 'physicist' || viewer.role === 'resident');
     }
     const input = setImageRegionsSchema.parse(req.body);
     const { layout, row } = await setImageRegions(image, input, auditOf(req));
-    const body: ImageRegionsDto = {
-      imageId: image.id,
-      studyId: image.studyId,
-      layout: presentLayout(layout, null, { edit: true, delete: false }),
-      placement: presentPlacement(row),
-      placed: placedLayoutFor(layout, row, spacingOf(image)),
-      permissions: { edit: true },
-    };
-    res.json({ data: body });
+    res.json({ data: imageRegionsDto(image, layout, row, true) });
   });
 
   router.post(
