@@ -1,4 +1,5 @@
 import { createHash, randomUUID } from 'node:crypto';
+import type { CreationAttributes } from 'sequelize';
 import { Detector } from '../../server/models/detector.model.ts';
 import { Grid } from '../../server/models/grid.model.ts';
 import { Image } from '../../server/models/image.model.ts';
@@ -27,16 +28,18 @@ export function buildDetector(roomId: number): Promise<Detector> {
   });
 }
 
-/** A focused grid of the given ratio (other construction values left out). */
-export function buildGrid(
-  ratio = 12,
-  roomId: number | null = null,
+/**
+ * A grid with only the values a test gives: everything else not stated
+ * (null), no derived fields, and a unique label unless one is given.
+ */
+export function buildGridWith(
+  values: Partial<CreationAttributes<Grid>>,
 ): Promise<Grid> {
   return Grid.create({
-    label: `G${ratio}-${tag()}`,
-    roomId,
-    ratio,
-    stripFrequencyPerCm: 40,
+    label: `Grid ${tag()}`,
+    roomId: null,
+    ratio: null,
+    stripFrequencyPerCm: null,
     stripHeightUm: null,
     interspaceWidthUm: null,
     stripThicknessUm: null,
@@ -44,10 +47,10 @@ export function buildGrid(
     stripMaterial: null,
     interspaceMaterial: null,
     coverMaterial: null,
-    focusDistanceCm: 115,
-    focusRangeMinCm: 100,
-    focusRangeMaxCm: 130,
-    serial: `SN-${tag()}`,
+    focusDistanceCm: null,
+    focusRangeMinCm: null,
+    focusRangeMaxCm: null,
+    serial: null,
     statedTp: null,
     statedTs: null,
     statedContrastImprovementFactor: null,
@@ -55,6 +58,24 @@ export function buildGrid(
     statedSelectivity: null,
     statedFiguresNote: null,
     notes: null,
+    ...values,
+  });
+}
+
+/** A focused grid of the given ratio (other construction values left out). */
+export function buildGrid(
+  ratio = 12,
+  roomId: number | null = null,
+): Promise<Grid> {
+  return buildGridWith({
+    label: `G${ratio}-${tag()}`,
+    roomId,
+    ratio,
+    stripFrequencyPerCm: 40,
+    focusDistanceCm: 115,
+    focusRangeMinCm: 100,
+    focusRangeMaxCm: 130,
+    serial: `SN-${tag()}`,
   });
 }
 

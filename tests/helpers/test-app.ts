@@ -5,7 +5,7 @@ import { createApp } from '../../server/app.ts';
 import { loadConfig, type AppConfig } from '../../server/config/env.ts';
 import { startFakeSmtpServer } from '../../server/mail/fake-smtp-server.ts';
 import { createMailer } from '../../server/mail/mailer.ts';
-import type { Role } from '../../shared/permissions.ts';
+import { ROLES, type Role } from '../../shared/permissions.ts';
 import { buildUser, TEST_PASSWORD } from './factories.ts';
 
 /** The Origin a test browser would send; configured as the public URL. */
@@ -59,4 +59,18 @@ export async function signedInAgent(
   if (res.status !== 200)
     throw new Error(`sign-in as ${role} failed: ${res.status} ${res.text}`);
   return { agent, user };
+}
+
+/**
+ * A signed-in agent for every role, for files that try each role on their
+ * routes (signing in hashes a password, which is slow: do it once a file).
+ */
+export async function signedInAgentsByRole(
+  app: Express,
+): Promise<Record<Role, TestAgent>> {
+  const agents = {} as Record<Role, TestAgent>;
+  for (const role of ROLES) {
+    agents[role] = (await signedInAgent(app, role)).agent;
+  }
+  return agents;
 }

@@ -2,25 +2,23 @@ import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DetectorCalibration } from '../../../server/models/detector-calibration.model.ts';
 import { Detector } from '../../../server/models/detector.model.ts';
-import { Grid } from '../../../server/models/grid.model.ts';
+import type { Grid } from '../../../server/models/grid.model.ts';
 import { Room } from '../../../server/models/room.model.ts';
 import { XrayUnit } from '../../../server/models/xray-unit.model.ts';
 import type { Role } from '../../../shared/permissions.ts';
+import { buildGridWith } from '../../helpers/study-factories.ts';
 import {
   browserAgent,
-  signedInAgent,
+  signedInAgentsByRole,
   startTestApp,
   type TestApp,
 } from '../../helpers/test-app.ts';
 
 let t: TestApp;
-// One signed-in agent per role: signing in hashes a password, which is slow.
-const agents = {} as Record<Role, ReturnType<typeof browserAgent>>;
+let agents: Record<Role, ReturnType<typeof browserAgent>>;
 beforeAll(async () => {
   t = await startTestApp();
-  for (const role of ['admin', 'physicist', 'resident', 'committee'] as const) {
-    agents[role] = (await signedInAgent(t.app, role)).agent;
-  }
+  agents = await signedInAgentsByRole(t.app);
 });
 afterAll(async () => {
   await t.close();
@@ -83,30 +81,12 @@ async function buildCalibration(
   });
 }
 
-async function buildGrid(roomId: number | null): Promise<Grid> {
-  return Grid.create({
+function buildGrid(roomId: number | null): Promise<Grid> {
+  return buildGridWith({
     label: unique('Matrix grid'),
     roomId,
     ratio: 8,
     stripFrequencyPerCm: 40,
-    stripHeightUm: null,
-    interspaceWidthUm: null,
-    stripThicknessUm: null,
-    derivedFields: [],
-    stripMaterial: null,
-    interspaceMaterial: null,
-    coverMaterial: null,
-    focusDistanceCm: null,
-    focusRangeMinCm: null,
-    focusRangeMaxCm: null,
-    serial: null,
-    statedTp: null,
-    statedTs: null,
-    statedContrastImprovementFactor: null,
-    statedBuckyFactor: null,
-    statedSelectivity: null,
-    statedFiguresNote: null,
-    notes: null,
   });
 }
 

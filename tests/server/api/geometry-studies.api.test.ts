@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Grid } from '../../../server/models/grid.model.ts';
+import type { Grid } from '../../../server/models/grid.model.ts';
 import type { Role } from '../../../shared/permissions.ts';
 import { kramersSpectrum } from '../../../shared/physics/x-ray-spectrum.ts';
 import type {
@@ -10,31 +10,28 @@ import type {
 import type { StudyDto } from '../../../shared/studies/study-dto.ts';
 import {
   buildGrid,
+  buildGridWith,
   buildRoom,
   SMALL_PLAN,
 } from '../../helpers/study-factories.ts';
 import {
   browserAgent,
-  signedInAgent,
+  signedInAgentsByRole,
   startTestApp,
   type TestApp,
 } from '../../helpers/test-app.ts';
 
-const ROLES = ['admin', 'physicist', 'resident', 'committee'] as const;
-
 let t: TestApp;
-const agents = {} as Record<Role, ReturnType<typeof browserAgent>>;
+let agents: Record<Role, ReturnType<typeof browserAgent>>;
 let focused: Grid;
 let bare: Grid;
 let study: StudyDto;
 beforeAll(async () => {
   t = await startTestApp();
-  for (const role of ROLES) {
-    agents[role] = (await signedInAgent(t.app, role)).agent;
-  }
+  agents = await signedInAgentsByRole(t.app);
   const room = await buildRoom();
   // r 10 focused at 100 cm with an aluminium interspace, N 40, t 36 µm.
-  focused = await Grid.create({
+  focused = await buildGridWith({
     label: `G10 geometry ${randomUUID().slice(0, 8)}`,
     roomId: room.id,
     ratio: 10,
@@ -45,18 +42,7 @@ beforeAll(async () => {
     derivedFields: ['stripHeightUm', 'interspaceWidthUm'],
     stripMaterial: 'lead',
     interspaceMaterial: 'aluminium',
-    coverMaterial: null,
     focusDistanceCm: 100,
-    focusRangeMinCm: null,
-    focusRangeMaxCm: null,
-    serial: null,
-    statedTp: null,
-    statedTs: null,
-    statedContrastImprovementFactor: null,
-    statedBuckyFactor: null,
-    statedSelectivity: null,
-    statedFiguresNote: null,
-    notes: null,
   });
   // Ratio and frequency only, no interspace material: not predictable.
   bare = await buildGrid(12, room.id);

@@ -7,9 +7,10 @@ import type {
   GeometryPlanDto,
   PredictedFiguresDto,
 } from '../../../shared/schemas/geometry-api.schema.ts';
+import { buildGridWith } from '../../helpers/study-factories.ts';
 import {
   browserAgent,
-  signedInAgent,
+  signedInAgentsByRole,
   startTestApp,
   type TestApp,
 } from '../../helpers/test-app.ts';
@@ -17,19 +18,15 @@ import {
 const ROLES = ['admin', 'physicist', 'resident', 'committee'] as const;
 
 let t: TestApp;
-// One signed-in agent per role: signing in hashes a password, which is slow.
-const agents = {} as Record<Role, ReturnType<typeof browserAgent>>;
+let agents: Record<Role, ReturnType<typeof browserAgent>>;
 let focusedGrid: Grid;
 let parallelGrid: Grid;
 beforeAll(async () => {
   t = await startTestApp();
-  for (const role of ROLES) {
-    agents[role] = (await signedInAgent(t.app, role)).agent;
-  }
+  agents = await signedInAgentsByRole(t.app);
   // The PHYSICS.md §6 construction: N 40, t 36 µm, r 12 (D 214, h 2568 µm).
-  focusedGrid = await Grid.create({
+  focusedGrid = await buildGridWith({
     label: `Geometry G12 ${randomUUID().slice(0, 8)}`,
-    roomId: null,
     ratio: 12,
     stripFrequencyPerCm: 40,
     stripHeightUm: 2568,
@@ -38,42 +35,12 @@ beforeAll(async () => {
     derivedFields: ['stripHeightUm', 'interspaceWidthUm'],
     stripMaterial: 'lead',
     interspaceMaterial: 'aluminium',
-    coverMaterial: null,
     focusDistanceCm: 100,
-    focusRangeMinCm: null,
-    focusRangeMaxCm: null,
-    serial: null,
-    statedTp: null,
-    statedTs: null,
-    statedContrastImprovementFactor: null,
-    statedBuckyFactor: null,
-    statedSelectivity: null,
-    statedFiguresNote: null,
-    notes: null,
   });
-  parallelGrid = await Grid.create({
+  parallelGrid = await buildGridWith({
     label: `Geometry parallel ${randomUUID().slice(0, 8)}`,
-    roomId: null,
     ratio: 6,
-    stripFrequencyPerCm: null,
-    stripHeightUm: null,
-    interspaceWidthUm: null,
-    stripThicknessUm: null,
-    derivedFields: [],
-    stripMaterial: null,
-    interspaceMaterial: null,
     coverMaterial: 'carbon-fibre',
-    focusDistanceCm: null,
-    focusRangeMinCm: null,
-    focusRangeMaxCm: null,
-    serial: null,
-    statedTp: null,
-    statedTs: null,
-    statedContrastImprovementFactor: null,
-    statedBuckyFactor: null,
-    statedSelectivity: null,
-    statedFiguresNote: null,
-    notes: null,
   });
 });
 afterAll(async () => {
