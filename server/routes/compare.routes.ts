@@ -39,11 +39,11 @@ import {
   listBaselines,
   updateBaseline,
 } from '../services/baseline.service.ts';
+import { loadBoard } from '../services/compare-board.service.ts';
 import {
   boardOptions,
   describeBoardFilters,
-  loadBoard,
-} from '../services/compare-board.service.ts';
+} from '../services/compare-options.service.ts';
 import { figuresCsv } from '../services/report-csv.service.ts';
 import { renderBoardReportPdf } from '../services/report-pdf.service.ts';
 import {
