@@ -1,12 +1,11 @@
 import type { Browser, Page } from 'playwright-core';
-import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { fromRoot } from '../../server/config/paths.ts';
 import { jobQueue, QUEUES, stopJobQueue } from '../../server/jobs/queue.ts';
 import { startRecomputeWorkers } from '../../server/jobs/recompute-study.worker.ts';
 import { createDiskImageStore } from '../../server/services/image-storage.service.ts';
 import { scratchDir } from '../helpers/dicom-files.ts';
-import { buildUser, TEST_PASSWORD } from '../helpers/factories.ts';
+import { TEST_PASSWORD } from '../helpers/factories.ts';
 import {
   buildSyntheticStudy,
   DISC,
@@ -19,7 +18,11 @@ import {
   screenshot,
   signInAs,
 } from './helpers/browser.ts';
-import { startE2eServer, type E2eServer } from './helpers/e2e-server.ts';
+import {
+  signedInApiAgent,
+  startE2eServer,
+  type E2eServer,
+} from './helpers/e2e-server.ts';
 
 const UPLOADS = 'test-output/e2e-regions/uploads';
 /** Size of the synthetic images and the canvas height the editor uses. */
@@ -64,13 +67,9 @@ beforeAll(async () => {
   scratchDir('e2e-regions');
   server = await startE2eServer({ uploadsDir: UPLOADS });
   browser = await launchBrowser();
-  const user = await buildUser({ role: 'physicist' });
-  email = user.email;
-  const agent = request.agent(server.baseUrl).set('Origin', server.baseUrl);
-  await agent
-    .post('/api/auth/sign-in')
-    .send({ email, password: TEST_PASSWORD })
-    .expect(200);
+  const physicist = await signedInApiAgent(server, 'physicist');
+  const { agent } = physicist;
+  email = physicist.email;
   await (await jobQueue()).purgeQueue(QUEUES.recomputeStudy.name);
   study = await buildSyntheticStudy(
     agent,

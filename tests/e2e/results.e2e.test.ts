@@ -1,5 +1,4 @@
 import type { Browser } from 'playwright-core';
-import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { AnalyzeJson } from '../../server/cli/analyze.command.ts';
 import { fromRoot } from '../../server/config/paths.ts';
@@ -9,7 +8,7 @@ import { startRecomputeWorkers } from '../../server/jobs/recompute-study.worker.
 import { createDiskImageStore } from '../../server/services/image-storage.service.ts';
 import { runLamella } from '../helpers/dicom-cli.ts';
 import { scratchDir } from '../helpers/dicom-files.ts';
-import { buildUser, TEST_PASSWORD } from '../helpers/factories.ts';
+import { TEST_PASSWORD } from '../helpers/factories.ts';
 import {
   buildSyntheticStudy,
   DISC_LAYOUT,
@@ -21,7 +20,11 @@ import {
   screenshot,
   signInAs,
 } from './helpers/browser.ts';
-import { startE2eServer, type E2eServer } from './helpers/e2e-server.ts';
+import {
+  signedInApiAgent,
+  startE2eServer,
+  type E2eServer,
+} from './helpers/e2e-server.ts';
 
 const UPLOADS = 'test-output/e2e-results/uploads';
 let server: E2eServer;
@@ -33,13 +36,9 @@ beforeAll(async () => {
   scratchDir('e2e-results');
   server = await startE2eServer({ uploadsDir: UPLOADS });
   browser = await launchBrowser();
-  const user = await buildUser({ role: 'physicist' });
-  email = user.email;
-  const agent = request.agent(server.baseUrl).set('Origin', server.baseUrl);
-  await agent
-    .post('/api/auth/sign-in')
-    .send({ email, password: TEST_PASSWORD })
-    .expect(200);
+  const physicist = await signedInApiAgent(server, 'physicist');
+  const { agent } = physicist;
+  email = physicist.email;
   await (await jobQueue()).purgeQueue(QUEUES.recomputeStudy.name);
   study = await buildSyntheticStudy(
     agent,

@@ -1,11 +1,15 @@
 import { existsSync } from 'node:fs';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
+import request from 'supertest';
+import type TestAgent from 'supertest/lib/agent.js';
 import { createApp } from '../../../server/app.ts';
 import { loadConfig, type AppConfig } from '../../../server/config/env.ts';
 import { fromRoot } from '../../../server/config/paths.ts';
 import { startFakeSmtpServer } from '../../../server/mail/fake-smtp-server.ts';
 import { createMailer } from '../../../server/mail/mailer.ts';
+import type { Role } from '../../../shared/permissions.ts';
+import { buildUser, TEST_PASSWORD } from '../../helpers/factories.ts';
 
 export interface E2eServer {
   baseUrl: string;
@@ -45,4 +49,22 @@ export async function startE2eServer(
       await smtp.close();
     },
   };
+}
+
+/**
+ * A new user of the role and an API agent signed in as them on the server
+ * (it sends the server's own Origin), for setting up data before the
+ * browser signs in with the same e-mail and TEST_PASSWORD.
+ */
+export async function signedInApiAgent(
+  server: E2eServer,
+  role: Role,
+): Promise<{ agent: TestAgent; email: string }> {
+  const { email } = await buildUser({ role });
+  const agent = request.agent(server.baseUrl).set('Origin', server.baseUrl);
+  await agent
+    .post('/api/auth/sign-in')
+    .send({ email, password: TEST_PASSWORD })
+    .expect(200);
+  return { agent, email };
 }
