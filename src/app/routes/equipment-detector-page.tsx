@@ -80,30 +80,19 @@ export default function EquipmentDetectorPage() {
         </div>
       ) : (
         <dl className="grid gap-3 rounded-xl bg-white p-5 text-sm shadow-sm md:grid-cols-4">
-          <div>
-            <dt className="text-xs font-semibold uppercase text-slate-500">
-              Type
-            </dt>
-            <dd>{DETECTOR_TYPE_LABELS[data.detectorType]}</dd>
-          </div>
-          <div>
-            <dt className="text-xs font-semibold uppercase text-slate-500">
-              Model
-            </dt>
-            <dd>{data.model ?? '–'}</dd>
-          </div>
-          <div>
-            <dt className="text-xs font-semibold uppercase text-slate-500">
-              Pixel pitch
-            </dt>
-            <dd>{formatNumber(data.pixelPitchUm)} µm</dd>
-          </div>
-          <div>
-            <dt className="text-xs font-semibold uppercase text-slate-500">
-              Serial number
-            </dt>
-            <dd>{data.serial ?? '–'}</dd>
-          </div>
+          {[
+            ['Type', DETECTOR_TYPE_LABELS[data.detectorType]],
+            ['Model', data.model ?? '–'],
+            ['Pixel pitch', `${formatNumber(data.pixelPitchUm)} µm`],
+            ['Serial number', data.serial ?? '–'],
+          ].map(([term, value]) => (
+            <div key={term}>
+              <dt className="text-xs font-semibold uppercase text-slate-500">
+                {term}
+              </dt>
+              <dd>{value}</dd>
+            </div>
+          ))}
         </dl>
       )}
 

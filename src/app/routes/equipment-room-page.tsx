@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useState, type ReactNode } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { DETECTOR_TYPE_LABELS } from '../../../shared/schemas/equipment.schema.ts';
 import { Breadcrumbs } from '../../components/ui/breadcrumbs.tsx';
@@ -22,6 +22,31 @@ import {
 import { RecordActions } from '../../features/equipment/components/record-actions.tsx';
 import { RoomForm } from '../../features/equipment/components/room-form.tsx';
 import { UnitForm } from '../../features/equipment/components/unit-form.tsx';
+
+function RoomSection({
+  id,
+  title,
+  children,
+}: {
+  id: string;
+  title: string;
+  children: ReactNode;
+}) {
+  return (
+    <section
+      aria-labelledby={`${id}-heading`}
+      className="space-y-3 rounded-xl bg-white p-5 shadow-sm"
+    >
+      <h2
+        id={`${id}-heading`}
+        className="text-lg font-semibold text-lamina-950"
+      >
+        {title}
+      </h2>
+      {children}
+    </section>
+  );
+}
 
 export default function EquipmentRoomPage() {
   const id = Number(useParams().id);
@@ -83,16 +108,7 @@ export default function EquipmentRoomPage() {
         />
       )}
 
-      <section
-        aria-labelledby="units-heading"
-        className="space-y-3 rounded-xl bg-white p-5 shadow-sm"
-      >
-        <h2
-          id="units-heading"
-          className="text-lg font-semibold text-lamina-950"
-        >
-          X-ray units
-        </h2>
+      <RoomSection id="units" title="X-ray units">
         {removeUnit.isError && <ErrorNotice error={removeUnit.error} />}
         {data.units.length === 0 ? (
           <Empty>No X-ray unit is recorded for this room.</Empty>
@@ -126,18 +142,9 @@ export default function EquipmentRoomPage() {
           </ul>
         )}
         {canEdit && <UnitForm roomId={data.id} />}
-      </section>
+      </RoomSection>
 
-      <section
-        aria-labelledby="detectors-heading"
-        className="space-y-3 rounded-xl bg-white p-5 shadow-sm"
-      >
-        <h2
-          id="detectors-heading"
-          className="text-lg font-semibold text-lamina-950"
-        >
-          Detectors
-        </h2>
+      <RoomSection id="detectors" title="Detectors">
         {data.detectors.length === 0 ? (
           <Empty>No detector is recorded for this room.</Empty>
         ) : (
@@ -158,18 +165,9 @@ export default function EquipmentRoomPage() {
           </ul>
         )}
         {canEdit && <DetectorForm roomId={data.id} />}
-      </section>
+      </RoomSection>
 
-      <section
-        aria-labelledby="grids-heading"
-        className="space-y-3 rounded-xl bg-white p-5 shadow-sm"
-      >
-        <h2
-          id="grids-heading"
-          className="text-lg font-semibold text-lamina-950"
-        >
-          Grids kept here
-        </h2>
+      <RoomSection id="grids" title="Grids kept here">
         {data.grids.length === 0 ? (
           <Empty>No grid is kept in this room.</Empty>
         ) : (
@@ -195,7 +193,7 @@ export default function EquipmentRoomPage() {
         >
           Open the grid inventory
         </Link>
-      </section>
+      </RoomSection>
     </div>
   );
 }
