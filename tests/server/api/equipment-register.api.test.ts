@@ -346,13 +346,11 @@ describe('equipment a study uses', () => {
       detectorType: 'flat_panel_indirect',
       pixelPitchUm: 139,
     });
-    const grid = await physicist
-      .post('/api/equipment/grids')
-      .send({
-        label: unique('Study grid'),
-        ratio: 12,
-        stripFrequencyPerCm: 40,
-      });
+    const grid = await physicist.post('/api/equipment/grids').send({
+      label: unique('Study grid'),
+      ratio: 12,
+      stripFrequencyPerCm: 40,
+    });
     const study = await Study.create({
       roomId: room.id,
       detectorId: detector.body.data.id,
