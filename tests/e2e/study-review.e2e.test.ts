@@ -15,11 +15,25 @@ import {
   signIn,
 } from './helpers/browser.ts';
 import { startE2eServer, type E2eServer } from './helpers/e2e-server.ts';
+import { ConditionAnalysis } from '../../server/models/condition-analysis.model.ts';
 
 let server: E2eServer;
 let browser: Browser;
+/** Waits until the in-process worker has finished every condition. */
+async function resultsSettled(studyId: number): Promise<void> {
+  await expect
+    .poll(
+      () =>
+        ConditionAnalysis.count({
+          where: { studyId, status: ['queued', 'running'] },
+        }),
+      { timeout: 60_000, interval: 500 },
+    )
+    .toBe(0);
+}
+
 beforeAll(async () => {
-  server = await startE2eServer();
+  server = await startE2eServer({}, { workers: 1 });
   browser = await launchBrowser();
 });
 afterAll(async () => {
@@ -146,6 +160,8 @@ describe('a study from plan to signature in the browser', () => {
     await pairing.getByText('Pairing saved.').waitFor();
     await screenshot(resident, 'study-pairing');
 
+    // Saving the pairing queues a recomputation; submitting waits for it.
+    await resultsSettled(studyId);
     await resident.getByRole('button', { name: 'Submit for review' }).click();
     await expect.poll(() => stateOf(resident)).toMatch(/^Waiting for review/);
 
@@ -180,6 +196,7 @@ describe('a study from plan to signature in the browser', () => {
       );
     await resident.getByRole('button', { name: 'Save the plan' }).click();
     await resident.waitForURL(`${server.baseUrl}/studies/${studyId}`);
+    await resultsSettled(studyId);
     await resident.getByRole('button', { name: 'Submit for review' }).click();
     await expect.poll(() => stateOf(resident)).toMatch(/^Waiting for review/);
 

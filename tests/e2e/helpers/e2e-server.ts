@@ -6,6 +6,7 @@ import type TestAgent from 'supertest/lib/agent.js';
 import { createApp } from '../../../server/app.ts';
 import { loadConfig, type AppConfig } from '../../../server/config/env.ts';
 import { fromRoot } from '../../../server/config/paths.ts';
+import { startJobs } from '../../../server/jobs/recompute-study.worker.ts';
 import { startFakeSmtpServer } from '../../../server/mail/fake-smtp-server.ts';
 import { createMailer } from '../../../server/mail/mailer.ts';
 import type { Role } from '../../../shared/permissions.ts';
@@ -20,9 +21,12 @@ export interface E2eServer {
 /**
  * A real Lamella server on a free loopback port, on the test database,
  * serving the built client from dist/client, with its own fake SMTP server.
+ * With `workers`, it also runs the job queue with that many in-process
+ * recompute workers, as `npm start` does.
  */
 export async function startE2eServer(
   overrides: Partial<AppConfig> = {},
+  options: { workers?: number } = {},
 ): Promise<E2eServer> {
   if (!existsSync(fromRoot('dist/client/index.html'))) {
     throw new Error(
@@ -39,10 +43,14 @@ export async function startE2eServer(
     mailer: createMailer({ from: config.mailFrom, fakeSmtpPort: smtp.port }),
   });
   http.on('request', built.app);
+  const jobs = options.workers
+    ? await startJobs(config, options.workers)
+    : null;
   return {
     baseUrl,
     config,
     close: async () => {
+      await jobs?.stop();
       http.closeAllConnections();
       await new Promise<void>((resolve) => http.close(() => resolve()));
       await built.close();
