@@ -178,6 +178,352 @@ function averageBlocks(
   }
 }
 
+/** Pixel arrays whose box means fit one 65536-slot count array. */
+type SmallIntegerPixels = Uint8Array | Int8Array | Uint16Array | Int16Array;
+
+function isSmallInteger(pixels: PixelArray): pixels is SmallIntegerPixels {
+  return (
+    pixels instanceof Uint16Array ||
+    pixels instanceof Int16Array ||
+    pixels instanceof Uint8Array ||
+    pixels instanceof Int8Array
+  );
+}
+
+/** Box means of 8- and 16-bit data, and how often each mean occurs. */
+interface CountedMeans {
+  values: Int32Array;
+  width: number;
+  height: number;
+  /** counts[mean + countOffset] is the number of blocks with that mean. */
+  counts: Uint32Array;
+  countOffset: number;
+  min: number;
+  max: number;
+}
+
+// The counted means round as boxAverage does, Math.round(sum / n), written
+// as ⌊(2·sum + n) / (2n)⌋: equal for integer sums this small (far below 2⁵³),
+// and Math.floor is several times faster than Math.round in V8's optimised
+// code.
+
+/** Factor 1: the values themselves, counted. */
+function countedAverage1(
+  px: SmallIntegerPixels,
+  columns: number,
+  fullWidth: number,
+  fullHeight: number,
+  width: number,
+  out: Int32Array,
+  counts: Uint32Array,
+  countOffset: number,
+): void {
+  for (let y = 0; y < fullHeight; y += 1) {
+    for (let x = 0, i = y * columns, o = y * width; x < fullWidth; x += 1) {
+      const value = px[i + x]!;
+      out[o + x] = value;
+      counts[value + countOffset]! += 1;
+    }
+  }
+}
+
+/** Whole 2 × 2 blocks, unrolled. */
+function countedAverage2(
+  px: SmallIntegerPixels,
+  columns: number,
+  fullWidth: number,
+  fullHeight: number,
+  width: number,
+  out: Int32Array,
+  counts: Uint32Array,
+  countOffset: number,
+): void {
+  for (let oy = 0; oy < fullHeight; oy += 1) {
+    const r0 = 2 * oy * columns;
+    const r1 = r0 + columns;
+    for (
+      let ox = 0, x = 0, o = oy * width;
+      ox < fullWidth;
+      ox += 1, x += 2, o += 1
+    ) {
+      const sum = px[r0 + x]! + px[r0 + x + 1]! + px[r1 + x]! + px[r1 + x + 1]!;
+      const mean = Math.floor((2 * sum + 4) / 8);
+      out[o] = mean;
+      counts[mean + countOffset]! += 1;
+    }
+  }
+}
+
+/** Whole 3 × 3 blocks, unrolled. */
+function countedAverage3(
+  px: SmallIntegerPixels,
+  columns: number,
+  fullWidth: number,
+  fullHeight: number,
+  width: number,
+  out: Int32Array,
+  counts: Uint32Array,
+  countOffset: number,
+): void {
+  for (let oy = 0; oy < fullHeight; oy += 1) {
+    const r0 = 3 * oy * columns;
+    const r1 = r0 + columns;
+    const r2 = r1 + columns;
+    for (
+      let ox = 0, x = 0, o = oy * width;
+      ox < fullWidth;
+      ox += 1, x += 3, o += 1
+    ) {
+      const sum =
+        px[r0 + x]! +
+        px[r0 + x + 1]! +
+        px[r0 + x + 2]! +
+        px[r1 + x]! +
+        px[r1 + x + 1]! +
+        px[r1 + x + 2]! +
+        px[r2 + x]! +
+        px[r2 + x + 1]! +
+        px[r2 + x + 2]!;
+      const mean = Math.floor((2 * sum + 9) / 18);
+      out[o] = mean;
+      counts[mean + countOffset]! += 1;
+    }
+  }
+}
+
+/** Whole 4 × 4 blocks, unrolled. */
+function countedAverage4(
+  px: SmallIntegerPixels,
+  columns: number,
+  fullWidth: number,
+  fullHeight: number,
+  width: number,
+  out: Int32Array,
+  counts: Uint32Array,
+  countOffset: number,
+): void {
+  for (let oy = 0; oy < fullHeight; oy += 1) {
+    const r0 = 4 * oy * columns;
+    const r1 = r0 + columns;
+    const r2 = r1 + columns;
+    const r3 = r2 + columns;
+    for (
+      let ox = 0, x = 0, o = oy * width;
+      ox < fullWidth;
+      ox += 1, x += 4, o += 1
+    ) {
+      const sum =
+        px[r0 + x]! +
+        px[r0 + x + 1]! +
+        px[r0 + x + 2]! +
+        px[r0 + x + 3]! +
+        px[r1 + x]! +
+        px[r1 + x + 1]! +
+        px[r1 + x + 2]! +
+        px[r1 + x + 3]! +
+        px[r2 + x]! +
+        px[r2 + x + 1]! +
+        px[r2 + x + 2]! +
+        px[r2 + x + 3]! +
+        px[r3 + x]! +
+        px[r3 + x + 1]! +
+        px[r3 + x + 2]! +
+        px[r3 + x + 3]!;
+      const mean = Math.floor((2 * sum + 16) / 32);
+      out[o] = mean;
+      counts[mean + countOffset]! += 1;
+    }
+  }
+}
+
+/** Counted means of the blocks [ox0, ox1) × [oy0, oy1), each clipped to the image. */
+function countedAverageBlocks(
+  px: SmallIntegerPixels,
+  columns: number,
+  rows: number,
+  factor: number,
+  ox0: number,
+  ox1: number,
+  oy0: number,
+  oy1: number,
+  width: number,
+  out: Int32Array,
+  counts: Uint32Array,
+  countOffset: number,
+): void {
+  for (let oy = oy0; oy < oy1; oy += 1) {
+    const y0 = oy * factor;
+    const y1 = Math.min(rows, y0 + factor);
+    for (let ox = ox0; ox < ox1; ox += 1) {
+      const x0 = ox * factor;
+      const x1 = Math.min(columns, x0 + factor);
+      let sum = 0;
+      for (let y = y0; y < y1; y += 1) {
+        const base = y * columns;
+        for (let i = base + x0; i < base + x1; i += 1) sum += px[i]!;
+      }
+      const area = (y1 - y0) * (x1 - x0);
+      const mean = Math.floor((2 * sum + area) / (2 * area));
+      out[oy * width + ox] = mean;
+      counts[mean + countOffset]! += 1;
+    }
+  }
+}
+
+/**
+ * {@link boxAverage} for 8- and 16-bit data, counting each mean as it is
+ * written: one pass over the image gives both the preview values and the
+ * histogram its automatic window needs.
+ */
+function countedBoxAverage(
+  pixels: SmallIntegerPixels,
+  columns: number,
+  rows: number,
+  factor: number,
+): CountedMeans {
+  const width = Math.ceil(columns / factor);
+  const height = Math.ceil(rows / factor);
+  const values = new Int32Array(width * height);
+  const counts = new Uint32Array(65536);
+  const countOffset =
+    pixels instanceof Int16Array
+      ? 32768
+      : pixels instanceof Int8Array
+        ? 128
+        : 0;
+  const fullWidth = Math.floor(columns / factor);
+  const fullHeight = Math.floor(rows / factor);
+  const whole =
+    factor === 1
+      ? countedAverage1
+      : factor === 2
+        ? countedAverage2
+        : factor === 3
+          ? countedAverage3
+          : factor === 4
+            ? countedAverage4
+            : null;
+  if (whole) {
+    whole(
+      pixels,
+      columns,
+      fullWidth,
+      fullHeight,
+      width,
+      values,
+      counts,
+      countOffset,
+    );
+  } else {
+    countedAverageBlocks(
+      pixels,
+      columns,
+      rows,
+      factor,
+      0,
+      fullWidth,
+      0,
+      fullHeight,
+      width,
+      values,
+      counts,
+      countOffset,
+    );
+  }
+  countedAverageBlocks(
+    pixels,
+    columns,
+    rows,
+    factor,
+    fullWidth,
+    width,
+    0,
+    height,
+    width,
+    values,
+    counts,
+    countOffset,
+  );
+  countedAverageBlocks(
+    pixels,
+    columns,
+    rows,
+    factor,
+    0,
+    fullWidth,
+    fullHeight,
+    height,
+    width,
+    values,
+    counts,
+    countOffset,
+  );
+  let low = 0;
+  while (counts[low] === 0) low += 1;
+  let high = counts.length - 1;
+  while (counts[high] === 0) high -= 1;
+  return {
+    values,
+    width,
+    height,
+    counts,
+    countOffset,
+    min: low - countOffset,
+    max: high - countOffset,
+  };
+}
+
+/**
+ * The p-th percentile of counted integer values, by the definition of
+ * {@link RegionStatistics.percentiles}, evaluated with the same arithmetic as
+ * regionStatistics so both give the same number.
+ */
+function percentileOfCounts(means: CountedMeans, n: number, p: number): number {
+  const { counts, countOffset } = means;
+  const h = (p / 100) * (n - 1);
+  const lower = Math.floor(h);
+  const fraction = h - lower;
+  // The value at a 0-based rank: the first whose running count exceeds it.
+  const at = (rank: number): number => {
+    let running = 0;
+    for (let b = means.min + countOffset; ; b += 1) {
+      running += counts[b]!;
+      if (running > rank) return b - countOffset;
+    }
+  };
+  const a = at(lower);
+  if (fraction === 0) return a;
+  const b = at(Math.min(lower + 1, n - 1));
+  return a + fraction * (b - a);
+}
+
+/** The window whose linear VOI function maps low to 0 and high to 255. */
+function windowBetween(
+  low: number,
+  high: number,
+): DisplayWindow & { source: 'percentiles' } {
+  return {
+    center: (low + high) / 2 + 0.5,
+    width: Math.max(1, high - low + 1),
+    source: 'percentiles',
+  };
+}
+
+/** The requested window, else the file's VOI window, else `automatic()`. */
+function pickWindow(
+  image: DecodedImage,
+  requested: DisplayWindow | undefined,
+  automatic: () => DisplayWindow & { source: 'percentiles' },
+): DisplayWindow & { source: 'request' | 'voi' | 'percentiles' } {
+  if (requested) return { ...requested, source: 'request' };
+  const center = firstNumber(image.header.WindowCenter);
+  const voiWidth = firstNumber(image.header.WindowWidth);
+  if (center !== null && voiWidth !== null && voiWidth >= 1) {
+    return { center, width: voiWidth, source: 'voi' };
+  }
+  return automatic();
+}
+
 /**
  * The window a preview uses: the one asked for, else the file's first VOI
  * window (Window Center/Width), else automatic from the 0.5th and 99.5th
@@ -190,38 +536,43 @@ export function chooseWindow(
   height: number,
   requested?: DisplayWindow,
 ): DisplayWindow & { source: 'request' | 'voi' | 'percentiles' } {
-  if (requested) return { ...requested, source: 'request' };
-  const center = firstNumber(image.header.WindowCenter);
-  const voiWidth = firstNumber(image.header.WindowWidth);
-  if (center !== null && voiWidth !== null && voiWidth >= 1) {
-    return { center, width: voiWidth, source: 'voi' };
+  return pickWindow(image, requested, () => {
+    const { stats } = regionStatistics(
+      values,
+      width,
+      height,
+      { shape: 'rect', x0: 0, y0: 0, w: width, h: height },
+      { percentiles: [...AUTO_WINDOW_PERCENTILES] },
+    );
+    return windowBetween(
+      stats.percentiles[String(AUTO_WINDOW_PERCENTILES[0])]!,
+      stats.percentiles[String(AUTO_WINDOW_PERCENTILES[1])]!,
+    );
+  });
+}
+
+/** Smallest and largest value of a non-empty array. */
+function int32Range(values: Int32Array): { min: number; max: number } {
+  let min = values[0]!;
+  let max = min;
+  for (let i = 1; i < values.length; i += 1) {
+    const v = values[i]!;
+    if (v < min) min = v;
+    if (v > max) max = v;
   }
-  const { stats } = regionStatistics(
-    values,
-    width,
-    height,
-    { shape: 'rect', x0: 0, y0: 0, w: width, h: height },
-    { percentiles: [...AUTO_WINDOW_PERCENTILES] },
-  );
-  const low = stats.percentiles[String(AUTO_WINDOW_PERCENTILES[0])]!;
-  const high = stats.percentiles[String(AUTO_WINDOW_PERCENTILES[1])]!;
-  // Inverse of the linear VOI function's ends: low → 0, high → 255.
-  return {
-    center: (low + high) / 2 + 0.5,
-    width: Math.max(1, high - low + 1),
-    source: 'percentiles',
-  };
+  return { min, max };
 }
 
 /**
  * Maps values through DICOM's linear VOI function to 0–255 (inverted for
  * MONOCHROME1). Integer values go through a table built once over their
- * range, which avoids rounding every pixel.
+ * range (`range` when the caller knows it), which avoids rounding every pixel.
  */
 function toGrey(
   values: Int32Array | Float64Array,
   window: DisplayWindow,
   invert: boolean,
+  range?: { min: number; max: number },
 ): Uint8Array {
   const lowEdge = window.center - 0.5 - (window.width - 1) / 2;
   const highEdge = window.center - 0.5 + (window.width - 1) / 2;
@@ -233,13 +584,7 @@ function toGrey(
   };
   const grey = new Uint8Array(values.length);
   if (values instanceof Int32Array) {
-    let min = Infinity;
-    let max = -Infinity;
-    for (let i = 0; i < values.length; i += 1) {
-      const v = values[i]!;
-      if (v < min) min = v;
-      if (v > max) max = v;
-    }
+    const { min, max } = range ?? int32Range(values);
     if (max - min < 1 << 20) {
       const table = new Uint8Array(max - min + 1);
       for (let v = min; v <= max; v += 1) table[v - min] = level(v);
@@ -280,13 +625,40 @@ export async function renderPreview(
     1,
     Math.ceil(Math.max(image.columns, image.rows) / maxSizePx),
   );
-  const { values, width, height } = boxAverage(image, factor);
-  const window = chooseWindow(image, values, width, height, options.window);
-  const grey = toGrey(
-    values,
-    window,
-    image.photometricInterpretation === 'MONOCHROME1',
-  );
+  const invert = image.photometricInterpretation === 'MONOCHROME1';
+  let grey: Uint8Array;
+  let width: number;
+  let height: number;
+  if (isSmallInteger(image.pixels)) {
+    // The automatic window's percentiles come from the counts gathered while
+    // averaging, not from a second pass over the averaged values.
+    const means = countedBoxAverage(
+      image.pixels,
+      image.columns,
+      image.rows,
+      factor,
+    );
+    ({ width, height } = means);
+    const n = means.values.length;
+    const window = pickWindow(image, options.window, () =>
+      windowBetween(
+        percentileOfCounts(means, n, AUTO_WINDOW_PERCENTILES[0]),
+        percentileOfCounts(means, n, AUTO_WINDOW_PERCENTILES[1]),
+      ),
+    );
+    grey = toGrey(means.values, window, invert, means);
+  } else {
+    const averaged = boxAverage(image, factor);
+    ({ width, height } = averaged);
+    const window = chooseWindow(
+      image,
+      averaged.values,
+      width,
+      height,
+      options.window,
+    );
+    grey = toGrey(averaged.values, window, invert);
+  }
   // Without toColourspace('b-w') sharp writes a one-channel raw image as RGB.
   return sharp(grey, { raw: { width, height, channels: 1 } })
     .toColourspace('b-w')

@@ -57,6 +57,77 @@ function shiftedUint16Histogram(
   }
 }
 
+/** Whether a 32-bit load holds the lower-addressed 16-bit pixel in its low half. */
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
+// The 4096-bin layout (16 values a bin, 12-bit resolution) counts into eight
+// interleaved lanes per bin, slot bin·8 + lane, in one fixed array: with the
+// array and the masks known, V8 can prove every slot in range and drop the
+// bounds checks. With two pixels per 32-bit load this loop takes 0.5–0.6 of
+// the general one's time.
+const LANES_4096 = new Int32Array(8 * 4096);
+
+/** {@link shiftedUint16Histogram} for 4096 bins: bin = value >>> 4. */
+function uint16Histogram4096(
+  pixels: Uint16Array,
+  columns: number,
+  spans: RegionSpans,
+  counts: Uint32Array,
+): void {
+  const a = LANES_4096;
+  a.fill(0);
+  // Pixel i sits in the low half of a word when (i + odd) is even.
+  const odd = (pixels.byteOffset >> 1) & 1;
+  const words = new Uint32Array(
+    pixels.buffer,
+    pixels.byteOffset - 2 * odd,
+    (pixels.length + odd) >> 1,
+  );
+  const s = spans.spans;
+  const stop = spans.count * 3;
+  let k = 0;
+  while (k < stop) {
+    let i = s[k]! * columns + s[k + 1]!;
+    let end = s[k]! * columns + s[k + 2]!;
+    k += 3;
+    while (k < stop && s[k]! * columns + s[k + 1]! === end) {
+      end = s[k]! * columns + s[k + 2]!;
+      k += 3;
+    }
+    if (((i + odd) & 1) === 1 && i < end) {
+      a[(pixels[i]! & 0xfff0) >>> 1]! += 1;
+      i += 1;
+    }
+    let w = (i + odd) >> 1;
+    for (; i + 7 < end; i += 8, w += 4) {
+      const w0 = words[w]!;
+      const w1 = words[w + 1]!;
+      const w2 = words[w + 2]!;
+      const w3 = words[w + 3]!;
+      a[(w0 & 0xfff0) >>> 1]! += 1;
+      a[((w0 >>> 17) & 0x7ff8) | 1]! += 1;
+      a[((w1 & 0xfff0) >>> 1) | 2]! += 1;
+      a[((w1 >>> 17) & 0x7ff8) | 3]! += 1;
+      a[((w2 & 0xfff0) >>> 1) | 4]! += 1;
+      a[((w2 >>> 17) & 0x7ff8) | 5]! += 1;
+      a[((w3 & 0xfff0) >>> 1) | 6]! += 1;
+      a[((w3 >>> 17) & 0x7ff8) | 7]! += 1;
+    }
+    for (; i < end; i += 1) a[(pixels[i]! & 0xfff0) >>> 1]! += 1;
+  }
+  for (let b = 0, at = 0; b < 4096; b += 1, at += 8) {
+    counts[b] =
+      a[at]! +
+      a[at + 1]! +
+      a[at + 2]! +
+      a[at + 3]! +
+      a[at + 4]! +
+      a[at + 5]! +
+      a[at + 6]! +
+      a[at + 7]!;
+  }
+}
+
 function clampedBin(
   v: number,
   rangeMin: number,
@@ -71,7 +142,8 @@ function clampedBin(
  * Histogram of the pixels listed by spans, in `bins` equal bins over
  * [rangeMin, rangeMax); values outside fall into the first or last bin. For
  * 16-bit data whose bin width is a power of two (e.g. 4096 bins over
- * 0..65535) each value is binned by a shift, in one pass with no copy.
+ * 0..65535) each value is binned by a shift, in one pass with no copy; 4096
+ * bins have a faster loop of their own.
  * @param pixels row-major image.
  * @param columns image width in pixels.
  * @param spans pixels to count (see regionSpans).
@@ -102,7 +174,11 @@ export function pixelHistogram(
     rangeMax === 65536 &&
     Number.isInteger(shift)
   ) {
-    shiftedUint16Histogram(pixels, columns, spans, shift, counts);
+    if (shift === 4 && LITTLE_ENDIAN && spans.pixelCount >= 8 * 4096) {
+      uint16Histogram4096(pixels, columns, spans, counts);
+    } else {
+      shiftedUint16Histogram(pixels, columns, spans, shift, counts);
+    }
   } else {
     for (let k = 0; k < spans.count * 3; k += 3) {
       const base = s[k]! * columns;

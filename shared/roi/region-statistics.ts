@@ -54,6 +54,9 @@ export interface RegionStatisticsOptions {
 /** Regions from this many pixels on use four-lane 16-bit histograms. */
 const LANE_THRESHOLD = 1 << 18;
 
+/** Whether a 32-bit load holds the lower-addressed 16-bit pixel in its low half. */
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
 /** Integer ranges up to this many values are histogrammed; wider ones sorted. */
 const MAX_HISTOGRAM_BINS = 1 << 20;
 
@@ -122,44 +125,138 @@ function histogramShape(
   return bins <= MAX_HISTOGRAM_BINS ? { offset: -min, bins } : null;
 }
 
+/** Occupied bins [low, high] of a filled histogram (low > high when none). */
+interface BinRange {
+  low: number;
+  high: number;
+}
+
+/**
+ * Counts the pixels into `histogram` (zeroed before) and returns the range
+ * of bins it touched, so the passes over the histogram that follow (and
+ * clearing it) stay within that range.
+ */
 function fillHistogram(
   pixels: PixelArray,
   columns: number,
   spans: RegionSpans,
   histogram: Uint32Array,
   offset: number,
-): void {
+  bins: number,
+): BinRange {
   // Lanes pay off over many pixels; folding them costs 2¹⁸ additions.
   const large = spans.pixelCount >= LANE_THRESHOLD;
+  if (large && LITTLE_ENDIAN && pixels instanceof Uint16Array && offset === 0) {
+    return fillUint16Lanes(pixels, columns, spans, histogram);
+  }
   if (
     large &&
     (pixels instanceof Uint16Array || pixels instanceof Int16Array)
   ) {
-    fillHistogram16(pixels, columns, spans, histogram, offset);
-    return;
+    return fillHistogram16(pixels, columns, spans, histogram, offset);
   }
   const s = spans.spans;
+  if (spans.pixelCount >= bins) {
+    for (let k = 0; k < spans.count * 3; k += 3) {
+      const base = s[k]! * columns;
+      const end = base + s[k + 2]!;
+      for (let i = base + s[k + 1]!; i < end; i += 1) {
+        histogram[pixels[i]! + offset]! += 1;
+      }
+    }
+    return { low: 0, high: bins - 1 };
+  }
+  // A region smaller than the value range (a circle in 16-bit data) touches
+  // few bins: note which, instead of walking all 65536 afterwards.
+  let low = bins;
+  let high = -1;
   for (let k = 0; k < spans.count * 3; k += 3) {
     const base = s[k]! * columns;
     const end = base + s[k + 2]!;
     for (let i = base + s[k + 1]!; i < end; i += 1) {
-      histogram[pixels[i]! + offset]! += 1;
+      const b = pixels[i]! + offset;
+      histogram[b]! += 1;
+      if (b < low) low = b;
+      if (b > high) high = b;
     }
   }
+  return { low, high };
 }
 
 /**
- * 16-bit histogram with four interleaved counters per value: neighbouring
+ * Sums the four interleaved lane counts into `histogram`, clears the lanes,
+ * and returns the occupied bin range.
+ */
+function foldLanes(lanes: Uint32Array, histogram: Uint32Array): BinRange {
+  let low = 65536;
+  let high = -1;
+  for (let b = 0, at = 0; b < 65536; b += 1, at += 4) {
+    const count = lanes[at]! + lanes[at + 1]! + lanes[at + 2]! + lanes[at + 3]!;
+    if (count !== 0) {
+      histogram[b] = count;
+      lanes[at] = 0;
+      lanes[at + 1] = 0;
+      lanes[at + 2] = 0;
+      lanes[at + 3] = 0;
+      if (low > b) low = b;
+      high = b;
+    }
+  }
+  return { low, high };
+}
+
+/**
+ * Unsigned 16-bit histogram, reading two pixels per 32-bit load where a run
+ * is 4-byte aligned, with four interleaved counters per value: neighbouring
  * pixels often share a value, and counting them into different slots of the
  * same cache line avoids waiting on the previous increment.
  */
+function fillUint16Lanes(
+  pixels: Uint16Array,
+  columns: number,
+  spans: RegionSpans,
+  histogram: Uint32Array,
+): BinRange {
+  if (laneScratch.length < 4 * 65536) laneScratch = new Uint32Array(4 * 65536);
+  const lanes = laneScratch;
+  // Pixel i sits in the low half of a word when (i + odd) is even.
+  const odd = (pixels.byteOffset >> 1) & 1;
+  const words = new Uint32Array(
+    pixels.buffer,
+    pixels.byteOffset - 2 * odd,
+    (pixels.length + odd) >> 1,
+  );
+  const s = spans.spans;
+  for (let k = 0; k < spans.count * 3; k += 3) {
+    const base = s[k]! * columns;
+    const end = base + s[k + 2]!;
+    let i = base + s[k + 1]!;
+    if (((i + odd) & 1) === 1 && i < end) {
+      lanes[pixels[i]! << 2]! += 1;
+      i += 1;
+    }
+    let w = (i + odd) >> 1;
+    for (; i + 3 < end; i += 4, w += 2) {
+      const a = words[w]!;
+      const b = words[w + 1]!;
+      lanes[(a & 0xffff) << 2]! += 1;
+      lanes[((a >>> 16) << 2) | 1]! += 1;
+      lanes[((b & 0xffff) << 2) | 2]! += 1;
+      lanes[((b >>> 16) << 2) | 3]! += 1;
+    }
+    for (; i < end; i += 1) lanes[pixels[i]! << 2]! += 1;
+  }
+  return foldLanes(lanes, histogram);
+}
+
+/** {@link fillUint16Lanes} for signed or offset 16-bit values, one pixel per load. */
 function fillHistogram16(
   pixels: Uint16Array | Int16Array,
   columns: number,
   spans: RegionSpans,
   histogram: Uint32Array,
   offset: number,
-): void {
+): BinRange {
   if (laneScratch.length < 4 * 65536) laneScratch = new Uint32Array(4 * 65536);
   const lanes = laneScratch;
   const s = spans.spans;
@@ -167,33 +264,15 @@ function fillHistogram16(
     const base = s[k]! * columns;
     const end = base + s[k + 2]!;
     let i = base + s[k + 1]!;
-    if (offset === 0) {
-      // Unsigned data, the usual case: the same loop without the offset.
-      for (; i + 3 < end; i += 4) {
-        lanes[pixels[i]! << 2]! += 1;
-        lanes[(pixels[i + 1]! << 2) | 1]! += 1;
-        lanes[(pixels[i + 2]! << 2) | 2]! += 1;
-        lanes[(pixels[i + 3]! << 2) | 3]! += 1;
-      }
-    } else {
-      for (; i + 3 < end; i += 4) {
-        lanes[(pixels[i]! + offset) << 2]! += 1;
-        lanes[((pixels[i + 1]! + offset) << 2) | 1]! += 1;
-        lanes[((pixels[i + 2]! + offset) << 2) | 2]! += 1;
-        lanes[((pixels[i + 3]! + offset) << 2) | 3]! += 1;
-      }
+    for (; i + 3 < end; i += 4) {
+      lanes[(pixels[i]! + offset) << 2]! += 1;
+      lanes[((pixels[i + 1]! + offset) << 2) | 1]! += 1;
+      lanes[((pixels[i + 2]! + offset) << 2) | 2]! += 1;
+      lanes[((pixels[i + 3]! + offset) << 2) | 3]! += 1;
     }
     for (; i < end; i += 1) lanes[(pixels[i]! + offset) << 2]! += 1;
   }
-  for (let b = 0; b < 65536; b += 1) {
-    const at = b << 2;
-    histogram[b] =
-      lanes[at]! + lanes[at + 1]! + lanes[at + 2]! + lanes[at + 3]!;
-    lanes[at] = 0;
-    lanes[at + 1] = 0;
-    lanes[at + 2] = 0;
-    lanes[at + 3] = 0;
-  }
+  return foldLanes(lanes, histogram);
 }
 
 /** Linear-interpolation percentile over sorted (signal, count) pairs. */
@@ -274,17 +353,23 @@ function histogramStatistics(
     histogramScratch = new Uint32Array(shape.bins);
   }
   const histogram = histogramScratch;
-  fillHistogram(pixels, columns, spans, histogram, shape.offset);
+  const { low, high } = fillHistogram(
+    pixels,
+    columns,
+    spans,
+    histogram,
+    shape.offset,
+    shape.bins,
+  );
   try {
     let occupied = 0;
-    for (let b = 0; b < shape.bins; b += 1)
-      if (histogram[b]! > 0) occupied += 1;
+    for (let b = low; b <= high; b += 1) if (histogram[b]! > 0) occupied += 1;
     let signals = new Float64Array(occupied);
     let counts = new Float64Array(occupied);
     const lut = options.lut;
     let sorted = true;
     let k = 0;
-    for (let b = 0; b < shape.bins; b += 1) {
+    for (let b = low; b <= high; b += 1) {
       const c = histogram[b]!;
       if (c === 0) continue;
       const value = b - shape.offset;
@@ -313,7 +398,7 @@ function histogramStatistics(
     }
     return summarise(signals, counts, options.percentiles ?? []);
   } finally {
-    histogram.fill(0, 0, shape.bins);
+    if (high >= low) histogram.fill(0, low, high + 1);
   }
 }
 
