@@ -336,6 +336,176 @@ function countedAverage4(
   }
 }
 
+/** Whether a 32-bit load holds the lower-addressed 16-bit pixel in its low half. */
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
+/**
+ * The unsigned 16-bit image as 32-bit words, two pixels each, when every
+ * row starts on a word (even width, 4-byte aligned start); else null.
+ */
+function pixelWords(pixels: Uint16Array, columns: number): Uint32Array | null {
+  if (!LITTLE_ENDIAN || columns % 2 !== 0 || pixels.byteOffset % 4 !== 0) {
+    return null;
+  }
+  return new Uint32Array(pixels.buffer, pixels.byteOffset, pixels.length >> 1);
+}
+
+// The word versions of the whole-block loops read two pixels per load,
+// which takes about a third off the time of the averaging pass.
+
+/** {@link countedAverage2} over words: one word per block row. */
+function wordAverage2(
+  words: Uint32Array,
+  rowWords: number,
+  fullWidth: number,
+  fullHeight: number,
+  width: number,
+  out: Int32Array,
+  counts: Uint32Array,
+): void {
+  for (let oy = 0; oy < fullHeight; oy += 1) {
+    const r0 = 2 * oy * rowWords;
+    const r1 = r0 + rowWords;
+    for (let ox = 0, o = oy * width; ox < fullWidth; ox += 1, o += 1) {
+      const a = words[r0 + ox]!;
+      const b = words[r1 + ox]!;
+      const sum = (a & 0xffff) + (a >>> 16) + (b & 0xffff) + (b >>> 16);
+      const mean = Math.floor((2 * sum + 4) / 8);
+      out[o] = mean;
+      counts[mean]! += 1;
+    }
+  }
+}
+
+/**
+ * {@link countedAverage3} over words: two blocks (six pixels) are three
+ * words per block row; an odd last block is read pixel by pixel.
+ */
+function wordAverage3(
+  words: Uint32Array,
+  pixels: Uint16Array,
+  columns: number,
+  fullWidth: number,
+  fullHeight: number,
+  width: number,
+  out: Int32Array,
+  counts: Uint32Array,
+): void {
+  const rowWords = columns >> 1;
+  const pairs = fullWidth >> 1;
+  for (let oy = 0; oy < fullHeight; oy += 1) {
+    const r0 = 3 * oy * rowWords;
+    const r1 = r0 + rowWords;
+    const r2 = r1 + rowWords;
+    let o = oy * width;
+    for (let j = 0, w = 0; j < pairs; j += 1, w += 3, o += 2) {
+      const a0 = words[r0 + w]!;
+      const a1 = words[r0 + w + 1]!;
+      const a2 = words[r0 + w + 2]!;
+      const b0 = words[r1 + w]!;
+      const b1 = words[r1 + w + 1]!;
+      const b2 = words[r1 + w + 2]!;
+      const c0 = words[r2 + w]!;
+      const c1 = words[r2 + w + 1]!;
+      const c2 = words[r2 + w + 2]!;
+      const left =
+        (a0 & 0xffff) +
+        (a0 >>> 16) +
+        (a1 & 0xffff) +
+        (b0 & 0xffff) +
+        (b0 >>> 16) +
+        (b1 & 0xffff) +
+        (c0 & 0xffff) +
+        (c0 >>> 16) +
+        (c1 & 0xffff);
+      const right =
+        (a1 >>> 16) +
+        (a2 & 0xffff) +
+        (a2 >>> 16) +
+        (b1 >>> 16) +
+        (b2 & 0xffff) +
+        (b2 >>> 16) +
+        (c1 >>> 16) +
+        (c2 & 0xffff) +
+        (c2 >>> 16);
+      const meanLeft = Math.floor((2 * left + 9) / 18);
+      const meanRight = Math.floor((2 * right + 9) / 18);
+      out[o] = meanLeft;
+      out[o + 1] = meanRight;
+      counts[meanLeft]! += 1;
+      counts[meanRight]! += 1;
+    }
+  }
+  if (fullWidth % 2 === 1) {
+    countedAverageBlocks(
+      pixels,
+      columns,
+      3 * fullHeight,
+      3,
+      fullWidth - 1,
+      fullWidth,
+      0,
+      fullHeight,
+      width,
+      out,
+      counts,
+      0,
+    );
+  }
+}
+
+/** {@link countedAverage4} over words: two words per block row. */
+function wordAverage4(
+  words: Uint32Array,
+  rowWords: number,
+  fullWidth: number,
+  fullHeight: number,
+  width: number,
+  out: Int32Array,
+  counts: Uint32Array,
+): void {
+  for (let oy = 0; oy < fullHeight; oy += 1) {
+    const r0 = 4 * oy * rowWords;
+    const r1 = r0 + rowWords;
+    const r2 = r1 + rowWords;
+    const r3 = r2 + rowWords;
+    for (
+      let ox = 0, w = 0, o = oy * width;
+      ox < fullWidth;
+      ox += 1, w += 2, o += 1
+    ) {
+      const a0 = words[r0 + w]!;
+      const a1 = words[r0 + w + 1]!;
+      const b0 = words[r1 + w]!;
+      const b1 = words[r1 + w + 1]!;
+      const c0 = words[r2 + w]!;
+      const c1 = words[r2 + w + 1]!;
+      const d0 = words[r3 + w]!;
+      const d1 = words[r3 + w + 1]!;
+      const sum =
+        (a0 & 0xffff) +
+        (a0 >>> 16) +
+        (a1 & 0xffff) +
+        (a1 >>> 16) +
+        (b0 & 0xffff) +
+        (b0 >>> 16) +
+        (b1 & 0xffff) +
+        (b1 >>> 16) +
+        (c0 & 0xffff) +
+        (c0 >>> 16) +
+        (c1 & 0xffff) +
+        (c1 >>> 16) +
+        (d0 & 0xffff) +
+        (d0 >>> 16) +
+        (d1 & 0xffff) +
+        (d1 >>> 16);
+      const mean = Math.floor((2 * sum + 16) / 32);
+      out[o] = mean;
+      counts[mean]! += 1;
+    }
+  }
+}
+
 /** Counted means of the blocks [ox0, ox1) × [oy0, oy1), each clipped to the image. */
 function countedAverageBlocks(
   px: SmallIntegerPixels,
@@ -370,6 +540,90 @@ function countedAverageBlocks(
   }
 }
 
+/** Counted means of the whole blocks, by the fastest loop that fits. */
+function countWholeBlocks(
+  pixels: SmallIntegerPixels,
+  columns: number,
+  rows: number,
+  factor: number,
+  fullWidth: number,
+  fullHeight: number,
+  width: number,
+  out: Int32Array,
+  counts: Uint32Array,
+  countOffset: number,
+): void {
+  const words =
+    pixels instanceof Uint16Array && factor >= 2 && factor <= 4
+      ? pixelWords(pixels, columns)
+      : null;
+  if (words && factor === 2) {
+    wordAverage2(
+      words,
+      columns >> 1,
+      fullWidth,
+      fullHeight,
+      width,
+      out,
+      counts,
+    );
+  } else if (words && factor === 3) {
+    const unsigned = pixels as Uint16Array;
+    wordAverage3(
+      words,
+      unsigned,
+      columns,
+      fullWidth,
+      fullHeight,
+      width,
+      out,
+      counts,
+    );
+  } else if (words) {
+    wordAverage4(
+      words,
+      columns >> 1,
+      fullWidth,
+      fullHeight,
+      width,
+      out,
+      counts,
+    );
+  } else if (factor <= 4) {
+    const unrolled = [
+      countedAverage1,
+      countedAverage2,
+      countedAverage3,
+      countedAverage4,
+    ][factor - 1]!;
+    unrolled(
+      pixels,
+      columns,
+      fullWidth,
+      fullHeight,
+      width,
+      out,
+      counts,
+      countOffset,
+    );
+  } else {
+    countedAverageBlocks(
+      pixels,
+      columns,
+      rows,
+      factor,
+      0,
+      fullWidth,
+      0,
+      fullHeight,
+      width,
+      out,
+      counts,
+      countOffset,
+    );
+  }
+}
+
 /**
  * {@link boxAverage} for 8- and 16-bit data, counting each mean as it is
  * written: one pass over the image gives both the preview values and the
@@ -393,43 +647,19 @@ function countedBoxAverage(
         : 0;
   const fullWidth = Math.floor(columns / factor);
   const fullHeight = Math.floor(rows / factor);
-  const whole =
-    factor === 1
-      ? countedAverage1
-      : factor === 2
-        ? countedAverage2
-        : factor === 3
-          ? countedAverage3
-          : factor === 4
-            ? countedAverage4
-            : null;
-  if (whole) {
-    whole(
-      pixels,
-      columns,
-      fullWidth,
-      fullHeight,
-      width,
-      values,
-      counts,
-      countOffset,
-    );
-  } else {
-    countedAverageBlocks(
-      pixels,
-      columns,
-      rows,
-      factor,
-      0,
-      fullWidth,
-      0,
-      fullHeight,
-      width,
-      values,
-      counts,
-      countOffset,
-    );
-  }
+  countWholeBlocks(
+    pixels,
+    columns,
+    rows,
+    factor,
+    fullWidth,
+    fullHeight,
+    width,
+    values,
+    counts,
+    countOffset,
+  );
+  // The partial blocks along the right and bottom edges.
   countedAverageBlocks(
     pixels,
     columns,
