@@ -10,18 +10,8 @@ import {
   XAxis,
   YAxis,
 } from 'recharts';
+import { seriesColour } from '../../../components/ui/chart-palette.ts';
 import type { ChartDto } from '../../../../shared/schemas/compare.schema.ts';
-
-const COLOURS = [
-  '#215553',
-  '#b45309',
-  '#4338ca',
-  '#be123c',
-  '#15803d',
-  '#7e22ce',
-  '#0369a1',
-  '#a16207',
-];
 
 interface Point {
   x: number;
@@ -105,14 +95,14 @@ function BoardChart({ chart }: { chart: ChartDto }) {
                 data={g.points}
                 dataKey="y"
                 name={g.label}
-                stroke={COLOURS[i % COLOURS.length]}
+                stroke={seriesColour(i)}
                 strokeWidth={2}
                 isAnimationActive={false}
               >
                 <ErrorBar
                   dataKey="error"
                   width={6}
-                  stroke={COLOURS[i % COLOURS.length]}
+                  stroke={seriesColour(i)}
                   isAnimationActive={false}
                 />
               </Line>

@@ -10,17 +10,9 @@ import {
   XAxis,
   YAxis,
 } from 'recharts';
+import { seriesColour } from '../../../components/ui/chart-palette.ts';
 import type { FigureKey } from '../../../../shared/figures.ts';
 import type { ConditionResultDto } from '../../../../shared/schemas/results.schema.ts';
-
-const COLOURS = [
-  '#215553',
-  '#e08a0b',
-  '#7c3aed',
-  '#0369a1',
-  '#b91c1c',
-  '#15803d',
-];
 
 interface Point {
   kvp: number;
@@ -98,14 +90,14 @@ function FigureChart({
               data={s.points}
               dataKey="value"
               name={`${s.thickness} cm`}
-              stroke={COLOURS[i % COLOURS.length]}
+              stroke={seriesColour(i)}
               strokeWidth={2}
               isAnimationActive={false}
             >
               <ErrorBar
                 dataKey="error"
                 width={6}
-                stroke={COLOURS[i % COLOURS.length]}
+                stroke={seriesColour(i)}
                 isAnimationActive={false}
               />
             </Line>
